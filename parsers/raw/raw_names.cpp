@@ -1,0 +1,54 @@
+// ngspice's spellings of one vector: node voltages with or without `v(...)`, branch
+// currents as `i(vsrc)` (raw files) or `vsrc#branch` (print), device parameters with or
+// without the unit wrapper (`i(@m1[id])`, `v(@m1[vds])`, `@m1[gm]`), all case-insensitive.
+#include <algorithm>
+#include <cctype>
+
+#include "parsers/raw/raw.hpp"
+
+namespace mirrorcheck::raw {
+namespace {
+
+std::string lower(std::string_view s) {
+    std::string out(s);
+    std::transform(out.begin(), out.end(), out.begin(), [](unsigned char c) { return std::tolower(c); });
+    return out;
+}
+
+// `v(x)` -> `x`; returns nullopt when `s` is not wrapped as `<letter>(...)`. A wrapper
+// with a comma (`v(a,b)`, a differential voltage) is not unwrapped.
+std::optional<std::string> unwrap(const std::string& s, char letter) {
+    if (s.size() < 4 || s[0] != letter || s[1] != '(' || s.back() != ')') return std::nullopt;
+    std::string inner = s.substr(2, s.size() - 3);
+    if (inner.find(',') != std::string::npos) return std::nullopt;
+    return inner;
+}
+
+}  // namespace
+
+std::string canonical_vector_name(std::string_view name) {
+    std::string s = lower(name);
+    if (auto inner = unwrap(s, 'v')) return *inner;
+    if (auto inner = unwrap(s, 'i')) return (*inner)[0] == '@' ? *inner : *inner + "#branch";
+    return s;
+}
+
+std::optional<std::size_t> Plot::find(std::string_view name) const {
+    auto it = index_.find(canonical_vector_name(name));
+    if (it == index_.end()) return std::nullopt;
+    return it->second;
+}
+
+std::string Plot::kind() const {
+    static const std::pair<std::string_view, std::string_view> kinds[] = {
+        {"operating point", "op"}, {"ac analysis", "ac"},    {"transfer function", "tf"},
+        {"dc transfer", "dc"},     {"transient", "tran"},    {"noise", "noise"},
+        {"integrated noise", "noise"}, {"sensitivity", "sens"}, {"ac sensitivity", "sens"},
+        {"pole-zero", "pz"}};
+    const std::string n = lower(name);
+    for (auto [prefix, kind] : kinds)
+        if (n.starts_with(prefix)) return std::string(kind);
+    return {};
+}
+
+}  // namespace mirrorcheck::raw

@@ -1,0 +1,383 @@
+// Reads ngspice raw files: a text header per plot, then its data as little-endian doubles
+// (`Binary:`, point-major, two doubles per complex value) or as text (`Values:`, a point
+// index, then one value per line, complex values as `re,im`). Plots follow each other in
+// any order. Plots that are not selected are skipped without decoding: binary data by
+// its size, text data by counting lines. Every count read from a header is checked
+// against the bytes left in the file before anything is allocated from it.
+#include <algorithm>
+#include <bit>
+#include <charconv>
+#include <cstring>
+
+#include "parsers/common/errors.hpp"
+#include "parsers/common/mapped_file.hpp"
+#include "parsers/raw/raw.hpp"
+#include "parsers/raw/raw_errors.hpp"
+#include "parsers/raw/raw_header_grammar.hpp"
+
+static_assert(std::endian::native == std::endian::little,
+              "binary raw files hold little-endian doubles; a big-endian host would need byte swaps");
+
+namespace mirrorcheck::raw {
+namespace {
+
+using detail::HeaderKey;
+
+// Where the reader is in the file. Lines are counted while the text is read; once binary
+// data has been passed, line numbers mean nothing and errors give byte offsets instead.
+struct Cursor {
+    std::string_view bytes;
+    std::string path;
+    std::size_t pos = 0;
+    std::size_t line = 0;  // line number of the last line returned (1-based)
+    bool after_binary = false;
+
+    bool at_end() const { return pos >= bytes.size(); }
+    std::size_t remaining() const { return bytes.size() - pos; }
+
+    Location here() const { return at(pos); }
+    Location at(std::size_t offset) const {
+        if (after_binary) return Location::at_byte(path, offset);
+        return Location(path, line);
+    }
+
+    // The next line without its line ending (LF or CRLF); advances past it.
+    std::string_view next_line() {
+        std::size_t end = bytes.find('\n', pos);
+        std::size_t stop = end == std::string_view::npos ? bytes.size() : end;
+        std::string_view l = bytes.substr(pos, stop - pos);
+        if (!l.empty() && l.back() == '\r') l.remove_suffix(1);
+        pos = end == std::string_view::npos ? bytes.size() : end + 1;
+        ++line;
+        return l;
+    }
+
+    std::string_view peek_line() const {
+        Cursor copy = *this;
+        return copy.next_line();
+    }
+
+    // Skips spaces, tabs, CRs and newlines, counting the lines.
+    void skip_space() {
+        while (pos < bytes.size()) {
+            char ch = bytes[pos];
+            if (ch == '\n') ++line;
+            else if (ch != ' ' && ch != '\t' && ch != '\r') break;
+            ++pos;
+        }
+    }
+};
+
+bool iequals(std::string_view a, std::string_view b) {
+    return a.size() == b.size() &&
+           std::equal(a.begin(), a.end(), b.begin(), [](char x, char y) { return std::tolower(x) == std::tolower(y); });
+}
+
+std::string trim(std::string_view s) {
+    auto b = s.find_first_not_of(" \t");
+    if (b == std::string_view::npos) return {};
+    auto e = s.find_last_not_of(" \t");
+    return std::string(s.substr(b, e - b + 1));
+}
+
+// ---- header ---------------------------------------------------------------------------
+
+struct HeaderFields {
+    bool title = false, date = false, plotname = false, flags = false;
+    std::optional<std::uint64_t> variables, points;
+};
+
+void set_once(bool& seen, const Cursor& c, std::string_view field) {
+    if (seen) throw errors::raw_duplicate_header_field(c.here(), field);
+    seen = true;
+}
+
+std::uint64_t read_count(const Cursor& c, std::optional<std::uint64_t>& slot, std::string_view field,
+                         std::string_view text) {
+    if (slot) throw errors::raw_duplicate_header_field(c.here(), field);
+    auto n = detail::parse_count(text);
+    if (!n) throw errors::raw_bad_count(c.here(), field, text);
+    slot = *n;
+    return *n;
+}
+
+void read_flags(const Cursor& c, Plot& plot, std::string_view text) {
+    static constexpr std::string_view known[] = {"real", "complex", "forward", "log", "padded", "unpadded", "double"};
+    bool real = false;
+    std::size_t i = 0;
+    while (i < text.size()) {
+        i = text.find_first_not_of(" \t", i);
+        if (i == std::string_view::npos) break;
+        std::size_t e = std::min(text.find_first_of(" \t", i), text.size());
+        std::string flag = trim(text.substr(i, e - i));
+        std::transform(flag.begin(), flag.end(), flag.begin(), [](unsigned char ch) { return std::tolower(ch); });
+        if (std::find(std::begin(known), std::end(known), flag) == std::end(known))
+            throw errors::raw_unknown_flag(c.here(), flag);
+        real = real || flag == "real";
+        plot.complex = plot.complex || flag == "complex";
+        plot.flags.push_back(flag);
+        i = e;
+    }
+    if (real == plot.complex) throw errors::raw_no_real_or_complex(c.here());
+}
+
+void append_text(std::optional<std::string>& slot, std::string_view text) {
+    slot = slot ? *slot + "\n" + trim(text) : trim(text);
+}
+
+// Reads `Key: value` lines up to and including `Variables:`.
+void read_header_fields(Cursor& c, Plot& plot) {
+    HeaderFields seen;
+    for (;;) {
+        if (c.at_end()) {
+            c.line++;
+            throw errors::raw_missing_header_field(c.here(), "Variables:");
+        }
+        std::string_view line = c.next_line();
+        auto parsed = detail::parse_header_line(line);
+        if (!parsed && detail::parse_variable_line(line))
+            throw errors::raw_missing_header_field(c.here(), "Variables:");
+        if (!parsed) throw errors::raw_bad_header_line(c.here(), line);
+        auto [key, text] = *parsed;
+        switch (key) {
+            case HeaderKey::title: set_once(seen.title, c, "Title:"); plot.title = trim(text); break;
+            case HeaderKey::date: set_once(seen.date, c, "Date:"); plot.date = trim(text); break;
+            case HeaderKey::plotname: set_once(seen.plotname, c, "Plotname:"); plot.name = trim(text); break;
+            case HeaderKey::flags: set_once(seen.flags, c, "Flags:"); read_flags(c, plot, text); break;
+            case HeaderKey::no_variables: read_count(c, seen.variables, "No. Variables:", text); break;
+            case HeaderKey::no_points: plot.point_count = read_count(c, seen.points, "No. Points:", text); break;
+            case HeaderKey::dimensions: append_text(plot.dimensions, text); break;
+            case HeaderKey::command: append_text(plot.command, text); break;
+            case HeaderKey::option: append_text(plot.option, text); break;
+            case HeaderKey::binary:
+            case HeaderKey::values: throw errors::raw_missing_header_field(c.here(), "Variables:");
+            case HeaderKey::variables:
+                if (!seen.plotname) throw errors::raw_missing_header_field(c.here(), "Plotname:");
+                if (!seen.flags) throw errors::raw_missing_header_field(c.here(), "Flags:");
+                if (!seen.variables) throw errors::raw_missing_header_field(c.here(), "No. Variables:");
+                if (!seen.points) throw errors::raw_missing_header_field(c.here(), "No. Points:");
+                if (*seen.variables == 0) throw errors::raw_no_variables(c.here());
+                // A table line takes at least 6 bytes (`0 a b` and a newline).
+                if (*seen.variables > c.remaining() / 6)
+                    throw errors::raw_too_many_variables(c.here(), *seen.variables, c.remaining() / 6);
+                plot.variables.reserve(*seen.variables);
+                plot.variables.resize(*seen.variables);
+                return;
+        }
+    }
+}
+
+void add_to_index(const Cursor& c, Plot& plot, std::size_t i) {
+    auto [it, fresh] = plot.index_.emplace(canonical_vector_name(plot.variables[i].name), i);
+    if (!fresh) throw errors::raw_duplicate_variable(c.here(), plot.variables[i].name, plot.variables[it->second].name);
+}
+
+void read_variable_table(Cursor& c, Plot& plot) {
+    for (std::size_t i = 0; i < plot.variables.size(); ++i) {
+        if (c.at_end()) throw errors::raw_short_variable_table(c.here(), i, plot.variables.size());
+        std::string_view line = c.next_line();
+        auto v = detail::parse_variable_line(line);
+        if (!v) {
+            if (detail::parse_header_line(line))
+                throw errors::raw_short_variable_table(c.here(), i, plot.variables.size());
+            throw errors::raw_bad_variable_line(c.here(), i, line);
+        }
+        if (v->index != i) throw errors::raw_bad_variable_line(c.here(), i, line);
+        plot.variables[i] = Variable{std::move(v->name), std::move(v->type), std::move(v->extras)};
+        add_to_index(c, plot, i);
+    }
+}
+
+void read_data_marker(Cursor& c, Plot& plot) {
+    std::string_view line = c.at_end() ? std::string_view{} : c.next_line();
+    auto parsed = detail::parse_header_line(line);
+    if (parsed && trim(parsed->second).empty() && parsed->first == HeaderKey::binary) {
+        plot.encoding = Encoding::binary;
+    } else if (parsed && trim(parsed->second).empty() && parsed->first == HeaderKey::values) {
+        plot.encoding = Encoding::ascii;
+    } else {
+        throw errors::raw_missing_data_marker(c.here(), line);
+    }
+    plot.data_offset = c.pos;
+}
+
+Plot read_plot_header(Cursor& c) {
+    Plot plot;
+    read_header_fields(c, plot);
+    read_variable_table(c, plot);
+    read_data_marker(c, plot);
+    return plot;
+}
+
+// ---- data -----------------------------------------------------------------------------
+
+void allocate_columns(Plot& plot) {
+    if (plot.complex) {
+        plot.cplx.assign(plot.variables.size(), {});
+        for (auto& col : plot.cplx) col.resize(plot.point_count);
+    } else {
+        plot.real.assign(plot.variables.size(), {});
+        for (auto& col : plot.real) col.resize(plot.point_count);
+    }
+}
+
+void decode_binary(std::string_view data, Plot& plot) {
+    const std::size_t n = plot.variables.size();
+    const char* row = data.data();
+    if (plot.complex) {
+        for (std::size_t p = 0; p < plot.point_count; ++p, row += 16 * n)
+            for (std::size_t v = 0; v < n; ++v) {
+                double re, im;
+                std::memcpy(&re, row + 16 * v, 8);
+                std::memcpy(&im, row + 16 * v + 8, 8);
+                plot.cplx[v][p] = {re, im};
+            }
+        return;
+    }
+    std::vector<double*> cols(n);
+    for (std::size_t v = 0; v < n; ++v) cols[v] = plot.real[v].data();
+    for (std::size_t p = 0; p < plot.point_count; ++p, row += 8 * n)
+        for (std::size_t v = 0; v < n; ++v) std::memcpy(cols[v] + p, row + 8 * v, 8);
+}
+
+void read_binary(Cursor& c, Plot& plot, bool wanted) {
+    const std::uint64_t row = plot.variables.size() * (plot.complex ? 16u : 8u);
+    const std::uint64_t available = c.remaining();
+    c.after_binary = true;
+    if (plot.point_count > available / row)
+        throw errors::raw_truncated_binary(c.at(c.pos), plot.point_count, plot.point_count * row, available);
+    const std::uint64_t size = plot.point_count * row;
+    if (wanted) {
+        allocate_columns(plot);
+        decode_binary(c.bytes.substr(c.pos, size), plot);
+        plot.decoded = true;
+    }
+    c.pos += size;
+}
+
+std::string_view next_token(Cursor& c) {
+    std::size_t start = c.pos;
+    while (c.pos < c.bytes.size()) {
+        char ch = c.bytes[c.pos];
+        if (ch == ' ' || ch == '\t' || ch == '\r' || ch == '\n') break;
+        ++c.pos;
+    }
+    return c.bytes.substr(start, c.pos - start);
+}
+
+bool parse_double(std::string_view text, double& out) {
+    auto [end, ec] = std::from_chars(text.data(), text.data() + text.size(), out);
+    return ec == std::errc{} && end == text.data() + text.size();
+}
+
+void read_point_index(Cursor& c, std::uint64_t p) {
+    std::string_view tok = next_token(c);
+    std::uint64_t index = 0;
+    auto [end, ec] = std::from_chars(tok.data(), tok.data() + tok.size(), index);
+    if (ec != std::errc{} || end != tok.data() + tok.size() || index != p)
+        throw errors::raw_bad_point_index(c.here(), p);
+}
+
+void read_ascii_value(Cursor& c, Plot& plot, std::size_t v, std::uint64_t p) {
+    std::string_view tok = next_token(c);
+    if (c.at_end() && p + 1 < plot.point_count) throw errors::raw_truncated_values(c.here(), p, plot.point_count);
+    if (!plot.complex) {
+        if (!parse_double(tok, plot.real[v][p])) throw errors::raw_bad_number(c.here(), tok, false);
+        return;
+    }
+    std::size_t comma = tok.find(',');
+    double re = 0, im = 0;
+    if (comma == std::string_view::npos || !parse_double(tok.substr(0, comma), re) ||
+        !parse_double(tok.substr(comma + 1), im))
+        throw errors::raw_bad_number(c.here(), tok, true);
+    plot.cplx[v][p] = {re, im};
+}
+
+void decode_ascii(Cursor& c, Plot& plot) {
+    const std::size_t n = plot.variables.size();
+    for (std::uint64_t p = 0; p < plot.point_count; ++p) {
+        for (std::size_t v = 0; v < n; ++v) {
+            c.skip_space();
+            if (c.at_end()) throw errors::raw_truncated_values(c.here(), p, plot.point_count);
+            if (v == 0) {
+                read_point_index(c, p);
+                c.skip_space();
+                if (c.at_end()) throw errors::raw_truncated_values(c.here(), p, plot.point_count);
+            }
+            read_ascii_value(c, plot, v, p);
+        }
+    }
+}
+
+// Passes over the values by counting non-blank lines (one per value), converting nothing.
+void skip_ascii(Cursor& c, const Plot& plot) {
+    const std::uint64_t lines = plot.point_count * plot.variables.size();
+    for (std::uint64_t seen = 0; seen < lines;) {
+        c.skip_space();
+        if (c.at_end()) throw errors::raw_truncated_values(c.here(), seen / plot.variables.size(), plot.point_count);
+        const void* nl = std::memchr(c.bytes.data() + c.pos, '\n', c.remaining());
+        c.pos = nl ? static_cast<std::size_t>(static_cast<const char*>(nl) - c.bytes.data()) : c.bytes.size();
+        ++seen;
+    }
+}
+
+void read_ascii(Cursor& c, Plot& plot, bool wanted) {
+    // A value takes at least 2 bytes (a digit and a newline).
+    const std::uint64_t n = plot.variables.size();
+    if (plot.point_count > c.remaining() / 2 / n)
+        throw errors::raw_too_many_points(c.here(), plot.point_count, c.remaining() / 2 / n);
+    if (wanted) {
+        allocate_columns(plot);
+        decode_ascii(c, plot);
+        plot.decoded = true;
+    } else {
+        skip_ascii(c, plot);
+    }
+    c.skip_space();
+    if (!c.at_end() && !detail::parse_header_line(c.peek_line()))
+        throw errors::raw_trailing_data(c.here(), plot.point_count);
+}
+
+// ---- plots ----------------------------------------------------------------------------
+
+bool is_selected(const Plot& plot, const Selection& selection) {
+    if (selection.headers_only) return false;
+    if (selection.plots.empty()) return true;
+    const std::string kind = plot.kind();
+    return std::any_of(selection.plots.begin(), selection.plots.end(),
+                       [&](const std::string& s) { return iequals(s, kind) || iequals(s, plot.name); });
+}
+
+// Blank lines may stand between plots in text files.
+void skip_blank_lines(Cursor& c) {
+    while (!c.at_end()) {
+        std::string_view l = c.peek_line();
+        if (l.find_first_not_of(" \t") != std::string_view::npos) return;
+        c.next_line();
+    }
+}
+
+}  // namespace
+
+bool looks_like_raw(std::string_view text) {
+    return text.size() >= 6 && iequals(text.substr(0, 6), "Title:");
+}
+
+RawFile read_raw(const std::filesystem::path& path, const Selection& selection) {
+    MappedFile file(path);
+    if (file.bytes().empty()) throw errors::empty_file(file.path());
+    if (!looks_like_raw(file.bytes())) throw errors::raw_not_a_raw_file(Location(file.path(), 1));
+    RawFile out{file.path(), {}};
+    Cursor c{file.bytes(), file.path()};
+    while (!c.at_end()) {
+        Plot plot = read_plot_header(c);
+        const bool wanted = is_selected(plot, selection);
+        if (plot.encoding == Encoding::binary) read_binary(c, plot, wanted);
+        else read_ascii(c, plot, wanted);
+        out.plots.push_back(std::move(plot));
+        skip_blank_lines(c);
+    }
+    return out;
+}
+
+}  // namespace mirrorcheck::raw

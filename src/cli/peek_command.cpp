@@ -1,0 +1,79 @@
+#include "src/cli/peek_command.hpp"
+
+#include <iostream>
+#include <memory>
+
+#include "parsers/common/errors.hpp"
+#include "parsers/common/input_kind.hpp"
+#include "parsers/listing/listing.hpp"
+#include "parsers/raw/raw.hpp"
+#include "src/cli/usage_errors.hpp"
+#include "src/report/listing_dump.hpp"
+#include "src/report/raw_dump.hpp"
+
+namespace mirrorcheck::cli {
+namespace {
+
+struct PeekOptions {
+    std::string file;
+    std::vector<std::string> vectors;
+    std::vector<std::string> plots;
+    std::string format = "table";
+};
+
+void check_vectors_exist(const raw::RawFile& raw, const std::vector<std::string>& vectors) {
+    for (const auto& name : vectors) {
+        bool found = false;
+        for (const auto& plot : raw.plots) found = found || (plot.decoded && plot.find(name));
+        if (!found) throw usage::missing_vector(raw.path, name);
+    }
+}
+
+void peek_raw(const PeekOptions& o) {
+    raw::Selection selection{o.plots, false};
+    raw::RawFile file = raw::read_raw(o.file, selection);
+    check_vectors_exist(file, o.vectors);
+    if (o.format == "json") std::cout << report::raw_to_json(file, o.vectors).dump(2) << "\n";
+    else std::cout << report::write_raw_table(file, o.vectors);
+}
+
+void peek_listing(const PeekOptions& o) {
+    if (!o.vectors.empty() || !o.plots.empty()) throw usage::option_needs_raw(o.file);
+    listing::Listing l = listing::read_listing(o.file);
+    if (o.format == "json") std::cout << report::listing_to_json(l).dump(2) << "\n";
+    else std::cout << report::write_listing_table(l);
+}
+
+int run_peek(const PeekOptions& o) {
+    switch (detect_input_kind(o.file)) {
+        case InputKind::raw: peek_raw(o); break;
+        case InputKind::listing: peek_listing(o); break;
+        case InputKind::netlist: throw errors::unknown_file_kind(o.file);
+    }
+    return 0;
+}
+
+}  // namespace
+
+void add_peek_command(CLI::App& app, int& status) {
+    auto options = std::make_shared<PeekOptions>();
+    CLI::App* cmd = app.add_subcommand("peek", "Show what a raw file or `show` listing holds");
+    cmd->footer(
+        "Examples:\n"
+        "  mirrorcheck peek run.raw                       plots, point counts and variables\n"
+        "  mirrorcheck peek run.raw --vector v(out) --vector @m2[gm]\n"
+        "  mirrorcheck peek run.raw --plot ac --format json\n"
+        "  mirrorcheck peek show.txt                      devices and their parameters");
+    cmd->add_option("FILE", options->file, "ngspice raw file (binary or ASCII) or `show` listing")
+        ->required()
+        ->check(CLI::ExistingFile);
+    cmd->add_option("--vector", options->vectors,
+                    "print this vector's values (ngspice names: v(out), i(vdd), @m1[gm], ...); repeatable");
+    cmd->add_option("--plot", options->plots,
+                    "read only these plots, by kind (op, ac, tf, dc, tran) or Plotname; repeatable");
+    cmd->add_option("--format", options->format, "output format")
+        ->check(CLI::IsMember({"table", "json"}));
+    cmd->callback([options, &status] { status = run_peek(*options); });
+}
+
+}  // namespace mirrorcheck::cli

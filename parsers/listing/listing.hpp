@@ -40,7 +40,8 @@ inline constexpr std::size_t printed_name_length = 21;
 // Reads a file holding `show` output, possibly mixed with other ngspice output.
 // Throws mirrorcheck::InputError (file, line, what was expected) on malformed tables.
 // A device shown more than once (`show m1`, then `show all`) is listed once: the later
-// table's rows replace the earlier ones of the same name, other rows are kept.
+// table's rows replace the earlier ones of the same name, other rows are kept. Names that
+// may have been cut are never merged, since distinct devices can share a cut name.
 Listing read_listing(const std::filesystem::path& path);
 
 // The same on text already in memory; `path` is used in error messages only.

@@ -153,7 +153,7 @@ const CorruptCase corrupt_cases[] = {
     {"unknown_flags.raw", "raw.unknown-flag", "unknown_flags.raw:4"},
     {"random_bytes.raw", "raw.not-raw", "random_bytes.raw:1"},
     {"random_after_header.raw", "raw.truncated-data", "random_after_header.raw: byte"},
-    {"ascii_truncated.raw", "raw.bad-number", "ascii_truncated.raw:"},
+    {"ascii_truncated.raw", "raw.truncated-data", "ascii_truncated.raw:72"},
     {"bad_point_index.raw", "raw.bad-point-index", "bad_point_index.raw:"},
     {"bad_count.raw", "raw.bad-count", "bad_count.raw:6"},
     {"missing_flags.raw", "raw.missing-header-field", "missing_flags.raw:6"},

@@ -2,6 +2,9 @@
 // and ASCII, made by tests/data/raw/make_fixtures.sh), the odd but valid cases, and the
 // catalogue of corrupt files with the error each must give.
 #include <cmath>
+#include <filesystem>
+#include <fstream>
+#include <random>
 #include <string>
 
 #include <doctest/doctest.h>
@@ -181,4 +184,36 @@ TEST_CASE("every corrupt file gives its error, with file and line or byte offset
             CHECK(std::string(e.what()).find(e.message()) != std::string::npos);
         }
     }
+}
+
+TEST_CASE("mutated and cut copies of valid files give a result or an InputError, never a crash") {
+    // A fixed seed keeps failures reproducible; the sanitizer build in CI catches memory errors.
+    std::mt19937 rng(20261201);
+    const char* sources[] = {"three_plots.raw", "three_plots_ascii.raw", "zero_points.raw"};
+    auto dir = std::filesystem::temp_directory_path() / ("mc-mutate-" + std::to_string(rng()));
+    std::filesystem::create_directories(dir);
+    std::size_t errors = 0, total = 0;
+    for (const char* source : sources) {
+        std::ifstream in(fixture(source), std::ios::binary);
+        const std::string original((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+        for (int i = 0; i < 300; ++i, ++total) {
+            std::string bytes = original;
+            if (i % 3 == 0) {
+                bytes.resize(rng() % bytes.size());
+            } else {
+                for (int k = 0, n = 1 + static_cast<int>(rng() % 4); k < n; ++k)
+                    bytes[rng() % bytes.size()] = static_cast<char>(rng() % 256);
+            }
+            auto path = dir / "mutant.raw";
+            std::ofstream(path, std::ios::binary) << bytes;
+            try {
+                raw::read_raw(path);
+            } catch (const InputError& e) {
+                ++errors;
+                CHECK(!e.code().empty());
+            }
+        }
+    }
+    std::filesystem::remove_all(dir);
+    CHECK(errors > total / 4);  // most cuts and many byte flips must be caught
 }

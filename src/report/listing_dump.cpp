@@ -3,6 +3,7 @@
 #include "src/report/listing_dump.hpp"
 
 #include <fmt/format.h>
+#include <fmt/ranges.h>
 
 namespace mirrorcheck::report {
 
@@ -15,6 +16,7 @@ std::string write_listing_table(const listing::Listing& listing) {
                        d.model.empty() ? "-" : d.model, d.model_type, d.model_description, d.line);
         for (const auto& [name, value] : d.parameters) fmt::format_to(it, "  {:<12} {}\n", name, value);
         for (const auto& [name, text] : d.text_values) fmt::format_to(it, "  {:<12} {}\n", name, text);
+        for (const auto& [name, values] : d.vectors) fmt::format_to(it, "  {:<12} {}\n", name, fmt::join(values, " "));
     }
     return out;
 }
@@ -31,7 +33,8 @@ nlohmann::json listing_to_json(const listing::Listing& listing) {
                            {"model_description", d.model_description},
                            {"line", d.line},
                            {"parameters", params},
-                           {"text_values", d.text_values}});
+                           {"text_values", d.text_values},
+                           {"vectors", d.vectors}});
     }
     return {{"file", listing.path}, {"kind", "listing"}, {"devices", devices}};
 }

@@ -115,7 +115,6 @@ void run_deck(const Deck& d) {
         check_printed_vector(
             b.plots[3], d.tran_vectors[i],
             test::parse_print_output(test::read_text(run.file("print_tran_" + std::to_string(i) + ".txt"))));
-    std::filesystem::remove_all(run.dir);
 }
 
 }  // namespace

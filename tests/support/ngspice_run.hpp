@@ -9,14 +9,32 @@
 #include <sstream>
 #include <stdexcept>
 #include <string>
+#include <utility>
 
 namespace mirrorcheck::test {
 
+// Removes its folder when it goes out of scope, unless MIRRORCHECK_KEEP_TEST_DIRS is set.
 struct NgspiceRun {
     std::filesystem::path dir;  // holds deck.cir and whatever the deck writes
     std::string output;         // ngspice's stdout and stderr
     int status = -1;
     std::filesystem::path file(const std::string& name) const { return dir / name; }
+
+    NgspiceRun() = default;
+    NgspiceRun(const NgspiceRun&) = delete;
+    NgspiceRun& operator=(const NgspiceRun&) = delete;
+    NgspiceRun(NgspiceRun&& other) noexcept
+        : dir(std::exchange(other.dir, {})), output(std::move(other.output)), status(other.status) {}
+    NgspiceRun& operator=(NgspiceRun&& other) noexcept {
+        std::swap(dir, other.dir);
+        output = std::move(other.output);
+        status = other.status;
+        return *this;
+    }
+    ~NgspiceRun() {
+        std::error_code ignored;
+        if (!dir.empty() && !std::getenv("MIRRORCHECK_KEEP_TEST_DIRS")) std::filesystem::remove_all(dir, ignored);
+    }
 };
 
 inline std::filesystem::path make_temp_dir(const std::string& stem) {

@@ -1,5 +1,6 @@
 #include "parsers/common/mapped_file.hpp"
 
+#include <algorithm>
 #include <cerrno>
 #include <cstring>
 
@@ -32,6 +33,19 @@ MappedFile::MappedFile(const std::filesystem::path& path) : path_(path.string())
         data_ = static_cast<const char*>(p);
     }
     ::close(fd);
+}
+
+void MappedFile::prefetch(std::size_t offset, std::size_t length) const {
+#ifdef MADV_POPULATE_READ
+    if (!data_ || offset >= size_) return;
+    const std::size_t page = static_cast<std::size_t>(::sysconf(_SC_PAGESIZE));
+    const std::size_t start = offset / page * page;
+    const std::size_t end = std::min(size_, offset + length);
+    ::madvise(const_cast<char*>(data_) + start, end - start, MADV_POPULATE_READ);
+#else
+    (void)offset;
+    (void)length;
+#endif
 }
 
 MappedFile::~MappedFile() {

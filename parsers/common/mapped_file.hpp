@@ -16,6 +16,9 @@ public:
     MappedFile& operator=(const MappedFile&) = delete;
 
     std::string_view bytes() const { return {data_, size_}; }
+    // Asks the kernel to map this byte range in at once rather than page by page, before
+    // a reader goes through all of it. Advice only: nothing changes if it is not followed.
+    void prefetch(std::size_t offset, std::size_t length) const;
     const std::string& path() const { return path_; }
 
 private:

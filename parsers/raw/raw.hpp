@@ -10,7 +10,13 @@
 #include <unordered_map>
 #include <vector>
 
+#include "parsers/common/column_allocator.hpp"
+
 namespace mirrorcheck::raw {
+
+// One vector's values over the points of a plot.
+using RealColumn = std::vector<double, ColumnAllocator<double>>;
+using ComplexColumn = std::vector<std::complex<double>, ColumnAllocator<std::complex<double>>>;
 
 enum class Encoding { binary, ascii };
 
@@ -37,8 +43,8 @@ struct Plot {
 
     // Values per variable (column-major), filled only when decoded.
     // Real plots fill `real`, complex plots fill `cplx`.
-    std::vector<std::vector<double>> real;
-    std::vector<std::vector<std::complex<double>>> cplx;
+    std::vector<RealColumn> real;
+    std::vector<ComplexColumn> cplx;
 
     // Index of a variable by any of ngspice's spellings, case-insensitive:
     // `v(out)` or `out`; `i(vdd)` or `vdd#branch`; `i(@m1[id])` or `@m1[id]`;

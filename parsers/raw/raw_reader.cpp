@@ -29,17 +29,20 @@ struct Cursor {
     std::string_view bytes;
     std::string path;
     std::size_t pos = 0;
-    std::size_t line = 0;  // line number of the last line returned (1-based)
+    std::size_t line = 1;       // line number at `pos` (1-based)
+    std::size_t line_read = 0;  // line number of the last line next_line() returned
+    std::size_t line_start = 0; // byte offset where that line starts
     bool after_binary = false;
+    const MappedFile* file = nullptr;
 
     bool at_end() const { return pos >= bytes.size(); }
     std::size_t remaining() const { return bytes.size() - pos; }
 
-    Location here() const { return at(pos); }
-    Location at(std::size_t offset) const {
-        if (after_binary) return Location::at_byte(path, offset);
-        return Location(path, line);
-    }
+    // Where the last header line read is; after binary data, its byte offset.
+    Location here() const { return after_binary ? Location::at_byte(path, line_start) : Location(path, line_read); }
+    // Where `pos` is: the line of the value being read.
+    Location value_here() const { return after_binary ? Location::at_byte(path, pos) : Location(path, line); }
+    Location at_byte(std::size_t offset) const { return Location::at_byte(path, offset); }
 
     // The next line without its line ending (LF or CRLF); advances past it.
     std::string_view next_line() {
@@ -47,8 +50,10 @@ struct Cursor {
         std::size_t stop = end == std::string_view::npos ? bytes.size() : end;
         std::string_view l = bytes.substr(pos, stop - pos);
         if (!l.empty() && l.back() == '\r') l.remove_suffix(1);
+        line_read = line;
+        line_start = pos;
+        if (end != std::string_view::npos) ++line;
         pos = end == std::string_view::npos ? bytes.size() : end + 1;
-        ++line;
         return l;
     }
 
@@ -129,10 +134,7 @@ void append_text(std::optional<std::string>& slot, std::string_view text) {
 void read_header_fields(Cursor& c, Plot& plot) {
     HeaderFields seen;
     for (;;) {
-        if (c.at_end()) {
-            c.line++;
-            throw errors::raw_missing_header_field(c.here(), "Variables:");
-        }
+        if (c.at_end()) throw errors::raw_missing_header_field(c.value_here(), "Variables:");
         std::string_view line = c.next_line();
         auto parsed = detail::parse_header_line(line);
         if (!parsed && detail::parse_variable_line(line))
@@ -174,7 +176,7 @@ void add_to_index(const Cursor& c, Plot& plot, std::size_t i) {
 
 void read_variable_table(Cursor& c, Plot& plot) {
     for (std::size_t i = 0; i < plot.variables.size(); ++i) {
-        if (c.at_end()) throw errors::raw_short_variable_table(c.here(), i, plot.variables.size());
+        if (c.at_end()) throw errors::raw_short_variable_table(c.value_here(), i, plot.variables.size());
         std::string_view line = c.next_line();
         auto v = detail::parse_variable_line(line);
         if (!v) {
@@ -221,23 +223,32 @@ void allocate_columns(Plot& plot) {
     }
 }
 
-void decode_binary(std::string_view data, Plot& plot) {
-    const std::size_t n = plot.variables.size();
-    const char* row = data.data();
-    if (plot.complex) {
-        for (std::size_t p = 0; p < plot.point_count; ++p, row += 16 * n)
-            for (std::size_t v = 0; v < n; ++v) {
-                double re, im;
-                std::memcpy(&re, row + 16 * v, 8);
-                std::memcpy(&im, row + 16 * v + 8, 8);
-                plot.cplx[v][p] = {re, im};
-            }
-        return;
+// Point-major rows to columns, a block of rows at a time: the block stays in cache while
+// each column's share of it is written in one sequential run.
+template <typename Value>
+void transpose_rows(const char* rows, std::size_t points, std::vector<Value*>& columns) {
+    constexpr std::size_t block = 256;
+    const std::size_t row = sizeof(Value) * columns.size();
+    for (std::size_t p0 = 0; p0 < points; p0 += block) {
+        const std::size_t m = std::min(block, points - p0);
+        for (std::size_t v = 0; v < columns.size(); ++v) {
+            const char* src = rows + p0 * row + sizeof(Value) * v;
+            Value* out = columns[v] + p0;
+            for (std::size_t k = 0; k < m; ++k, src += row) std::memcpy(static_cast<void*>(out + k), src, sizeof(Value));
+        }
     }
-    std::vector<double*> cols(n);
-    for (std::size_t v = 0; v < n; ++v) cols[v] = plot.real[v].data();
-    for (std::size_t p = 0; p < plot.point_count; ++p, row += 8 * n)
-        for (std::size_t v = 0; v < n; ++v) std::memcpy(cols[v] + p, row + 8 * v, 8);
+}
+
+void decode_binary(std::string_view data, Plot& plot) {
+    if (plot.complex) {
+        std::vector<std::complex<double>*> columns;
+        for (auto& col : plot.cplx) columns.push_back(col.data());
+        transpose_rows(data.data(), plot.point_count, columns);
+    } else {
+        std::vector<double*> columns;
+        for (auto& col : plot.real) columns.push_back(col.data());
+        transpose_rows(data.data(), plot.point_count, columns);
+    }
 }
 
 void read_binary(Cursor& c, Plot& plot, bool wanted) {
@@ -245,76 +256,111 @@ void read_binary(Cursor& c, Plot& plot, bool wanted) {
     const std::uint64_t available = c.remaining();
     c.after_binary = true;
     if (plot.point_count > available / row)
-        throw errors::raw_truncated_binary(c.at(c.pos), plot.point_count, plot.point_count * row, available);
+        throw errors::raw_truncated_binary(c.at_byte(c.pos), plot.point_count, plot.point_count * row, available);
     const std::uint64_t size = plot.point_count * row;
     if (wanted) {
         allocate_columns(plot);
+        c.file->prefetch(c.pos, size);
         decode_binary(c.bytes.substr(c.pos, size), plot);
         plot.decoded = true;
     }
     c.pos += size;
 }
 
-std::string_view next_token(Cursor& c) {
-    std::size_t start = c.pos;
-    while (c.pos < c.bytes.size()) {
-        char ch = c.bytes[c.pos];
-        if (ch == ' ' || ch == '\t' || ch == '\r' || ch == '\n') break;
-        ++c.pos;
+bool is_blank(char ch) { return ch == ' ' || ch == '\t' || ch == '\r' || ch == '\n'; }
+
+// Decodes a text plot's values in one pass: `<index> <value>` opens each point, then one
+// value per line (`re,im` when complex). Lines are counted only to name them in errors.
+class AsciiDecoder {
+public:
+    AsciiDecoder(Cursor& c, Plot& plot)
+        : c_(c), plot_(plot), begin_(c.bytes.data()), end_(begin_ + c.bytes.size()), s_(begin_ + c.pos), line_(c.line) {}
+
+    void run() {
+        const std::size_t n = plot_.variables.size();
+        for (std::uint64_t p = 0; p < plot_.point_count; ++p) {
+            read_index(p);
+            for (std::size_t v = 0; v < n; ++v) read_value(v, p, p + 1 == plot_.point_count && v + 1 == n);
+        }
+        sync();
     }
-    return c.bytes.substr(start, c.pos - start);
-}
 
-bool parse_double(std::string_view text, double& out) {
-    auto [end, ec] = std::from_chars(text.data(), text.data() + text.size(), out);
-    return ec == std::errc{} && end == text.data() + text.size();
-}
-
-void read_point_index(Cursor& c, std::uint64_t p) {
-    std::string_view tok = next_token(c);
-    std::uint64_t index = 0;
-    auto [end, ec] = std::from_chars(tok.data(), tok.data() + tok.size(), index);
-    if (ec != std::errc{} || end != tok.data() + tok.size() || index != p)
-        throw errors::raw_bad_point_index(c.here(), p);
-}
-
-void read_ascii_value(Cursor& c, Plot& plot, std::size_t v, std::uint64_t p) {
-    std::string_view tok = next_token(c);
-    if (c.at_end() && p + 1 < plot.point_count) throw errors::raw_truncated_values(c.here(), p, plot.point_count);
-    if (!plot.complex) {
-        if (!parse_double(tok, plot.real[v][p])) throw errors::raw_bad_number(c.here(), tok, false);
-        return;
+private:
+    void sync() {
+        c_.pos = static_cast<std::size_t>(s_ - begin_);
+        c_.line = line_;
     }
-    std::size_t comma = tok.find(',');
-    double re = 0, im = 0;
-    if (comma == std::string_view::npos || !parse_double(tok.substr(0, comma), re) ||
-        !parse_double(tok.substr(comma + 1), im))
-        throw errors::raw_bad_number(c.here(), tok, true);
-    plot.cplx[v][p] = {re, im};
-}
 
-void decode_ascii(Cursor& c, Plot& plot) {
-    const std::size_t n = plot.variables.size();
-    for (std::uint64_t p = 0; p < plot.point_count; ++p) {
-        for (std::size_t v = 0; v < n; ++v) {
-            c.skip_space();
-            if (c.at_end()) throw errors::raw_truncated_values(c.here(), p, plot.point_count);
-            if (v == 0) {
-                read_point_index(c, p);
-                c.skip_space();
-                if (c.at_end()) throw errors::raw_truncated_values(c.here(), p, plot.point_count);
-            }
-            read_ascii_value(c, plot, v, p);
+    void skip_blanks(std::uint64_t p) {
+        while (s_ != end_ && is_blank(*s_)) {
+            line_ += *s_ == '\n';
+            ++s_;
+        }
+        if (s_ == end_) {
+            sync();
+            throw errors::raw_truncated_values(c_.value_here(), p, plot_.point_count);
         }
     }
-}
+
+    bool ends_token(const char* e) const { return e == end_ || is_blank(*e); }
+
+    void read_index(std::uint64_t p) {
+        skip_blanks(p);
+        std::uint64_t index = 0;
+        auto [e, ec] = std::from_chars(s_, end_, index);
+        if (ec != std::errc{} || index != p || !ends_token(e)) {
+            sync();
+            throw errors::raw_bad_point_index(c_.value_here(), p);
+        }
+        s_ = e;
+    }
+
+    // A number ending at a blank; a number cut by the end of the file is truncation,
+    // unless it is the very last value.
+    const char* read_number(const char* from, double& out, bool last, std::uint64_t p, char terminator) {
+        auto [e, ec] = std::from_chars(from, end_, out);
+        if (ec == std::errc{} && e == end_ && !last) {
+            sync();
+            throw errors::raw_truncated_values(c_.value_here(), p, plot_.point_count);
+        }
+        if (ec != std::errc{} || !(terminator ? (e != end_ && *e == terminator) : ends_token(e))) bad_number();
+        return e;
+    }
+
+    void read_value(std::size_t v, std::uint64_t p, bool last) {
+        skip_blanks(p);
+        if (!plot_.complex) {
+            s_ = read_number(s_, plot_.real[v][p], last, p, 0);
+            return;
+        }
+        double re = 0, im = 0;
+        const char* comma = read_number(s_, re, false, p, ',');
+        s_ = read_number(comma + 1, im, last, p, 0);
+        plot_.cplx[v][p] = {re, im};
+    }
+
+    [[noreturn]] void bad_number() {
+        const char* e = s_;
+        while (!ends_token(e)) ++e;
+        sync();
+        throw errors::raw_bad_number(c_.value_here(), std::string_view(s_, static_cast<std::size_t>(e - s_)), plot_.complex);
+    }
+
+    Cursor& c_;
+    Plot& plot_;
+    const char* begin_;
+    const char* end_;
+    const char* s_;
+    std::size_t line_;
+};
 
 // Passes over the values by counting non-blank lines (one per value), converting nothing.
 void skip_ascii(Cursor& c, const Plot& plot) {
     const std::uint64_t lines = plot.point_count * plot.variables.size();
     for (std::uint64_t seen = 0; seen < lines;) {
         c.skip_space();
-        if (c.at_end()) throw errors::raw_truncated_values(c.here(), seen / plot.variables.size(), plot.point_count);
+        if (c.at_end())
+            throw errors::raw_truncated_values(c.value_here(), seen / plot.variables.size(), plot.point_count);
         const void* nl = std::memchr(c.bytes.data() + c.pos, '\n', c.remaining());
         c.pos = nl ? static_cast<std::size_t>(static_cast<const char*>(nl) - c.bytes.data()) : c.bytes.size();
         ++seen;
@@ -325,17 +371,18 @@ void read_ascii(Cursor& c, Plot& plot, bool wanted) {
     // A value takes at least 2 bytes (a digit and a newline).
     const std::uint64_t n = plot.variables.size();
     if (plot.point_count > c.remaining() / 2 / n)
-        throw errors::raw_too_many_points(c.here(), plot.point_count, c.remaining() / 2 / n);
+        throw errors::raw_too_many_points(c.value_here(), plot.point_count, c.remaining() / 2 / n);
     if (wanted) {
         allocate_columns(plot);
-        decode_ascii(c, plot);
+        c.file->prefetch(c.pos, c.remaining());
+        AsciiDecoder(c, plot).run();
         plot.decoded = true;
     } else {
         skip_ascii(c, plot);
     }
     c.skip_space();
     if (!c.at_end() && !detail::parse_header_line(c.peek_line()))
-        throw errors::raw_trailing_data(c.here(), plot.point_count);
+        throw errors::raw_trailing_data(c.value_here(), plot.point_count);
 }
 
 // ---- plots ----------------------------------------------------------------------------
@@ -369,6 +416,7 @@ RawFile read_raw(const std::filesystem::path& path, const Selection& selection) 
     if (!looks_like_raw(file.bytes())) throw errors::raw_not_a_raw_file(Location(file.path(), 1));
     RawFile out{file.path(), {}};
     Cursor c{file.bytes(), file.path()};
+    c.file = &file;
     while (!c.at_end()) {
         Plot plot = read_plot_header(c);
         const bool wanted = is_selected(plot, selection);

@@ -19,7 +19,7 @@ bool use_large_blocks(std::size_t bytes) {
     (void)bytes;
     return false;
 #else
-    return bytes >= 2 * huge_page;
+    return bytes >= huge_page;
 #endif
 }
 

@@ -32,24 +32,23 @@ MappedFile::MappedFile(const std::filesystem::path& path) : path_(path.string())
         ::madvise(p, size_, MADV_SEQUENTIAL);
         data_ = static_cast<const char*>(p);
     }
-    ::close(fd);
+    fd_ = fd;
 }
 
-void MappedFile::prefetch(std::size_t offset, std::size_t length) const {
-#ifdef MADV_POPULATE_READ
-    if (!data_ || offset >= size_) return;
-    const std::size_t page = static_cast<std::size_t>(::sysconf(_SC_PAGESIZE));
-    const std::size_t start = offset / page * page;
-    const std::size_t end = std::min(size_, offset + length);
-    ::madvise(const_cast<char*>(data_) + start, end - start, MADV_POPULATE_READ);
-#else
-    (void)offset;
-    (void)length;
-#endif
+void MappedFile::copy_out(std::size_t offset, std::size_t length, char* out) const {
+    std::size_t done = 0;
+    while (done < length) {
+        ssize_t n = ::pread(fd_, out + done, length - done, static_cast<off_t>(offset + done));
+        if (n <= 0) break;
+        done += static_cast<std::size_t>(n);
+    }
+    // The mapping holds the same bytes; it is the fallback should pread stop short.
+    if (done < length) std::memcpy(out + done, data_ + offset + done, length - done);
 }
 
 MappedFile::~MappedFile() {
     if (data_) ::munmap(const_cast<char*>(data_), size_);
+    if (fd_ >= 0) ::close(fd_);
 }
 
 }  // namespace mirrorcheck

@@ -239,16 +239,26 @@ void transpose_rows(const char* rows, std::size_t points, std::vector<Value*>& c
     }
 }
 
-void decode_binary(std::string_view data, Plot& plot) {
-    if (plot.complex) {
-        std::vector<std::complex<double>*> columns;
-        for (auto& col : plot.cplx) columns.push_back(col.data());
-        transpose_rows(data.data(), plot.point_count, columns);
-    } else {
-        std::vector<double*> columns;
-        for (auto& col : plot.real) columns.push_back(col.data());
-        transpose_rows(data.data(), plot.point_count, columns);
+template <typename Value, typename Column>
+void decode_binary_columns(const MappedFile& file, std::size_t offset, std::size_t points, std::vector<Column>& out) {
+    std::vector<Value*> columns;
+    for (auto& col : out) columns.push_back(col.data());
+    std::vector<Value*> at(columns.size());
+    const std::size_t row = sizeof(Value) * columns.size();
+    const std::size_t rows_per_chunk = std::max<std::size_t>(1, (std::size_t{256} << 10) / row);
+    std::vector<char> chunk(rows_per_chunk * row);
+    for (std::size_t p0 = 0; p0 < points; p0 += rows_per_chunk) {
+        const std::size_t m = std::min(rows_per_chunk, points - p0);
+        file.copy_out(offset + p0 * row, m * row, chunk.data());
+        for (std::size_t v = 0; v < columns.size(); ++v) at[v] = columns[v] + p0;
+        transpose_rows(chunk.data(), m, at);
     }
+}
+
+// Reads the rows a chunk at a time into a small buffer and transposes each chunk.
+void decode_binary(const MappedFile& file, std::size_t offset, Plot& plot) {
+    if (plot.complex) decode_binary_columns<std::complex<double>>(file, offset, plot.point_count, plot.cplx);
+    else decode_binary_columns<double>(file, offset, plot.point_count, plot.real);
 }
 
 void read_binary(Cursor& c, Plot& plot, bool wanted) {
@@ -260,8 +270,7 @@ void read_binary(Cursor& c, Plot& plot, bool wanted) {
     const std::uint64_t size = plot.point_count * row;
     if (wanted) {
         allocate_columns(plot);
-        c.file->prefetch(c.pos, size);
-        decode_binary(c.bytes.substr(c.pos, size), plot);
+        decode_binary(*c.file, c.pos, plot);
         plot.decoded = true;
     }
     c.pos += size;
@@ -271,10 +280,14 @@ bool is_blank(char ch) { return ch == ' ' || ch == '\t' || ch == '\r' || ch == '
 
 // Decodes a text plot's values in one pass: `<index> <value>` opens each point, then one
 // value per line (`re,im` when complex). Lines are counted only to name them in errors.
+// The text is read through a window filled with pread() (see MappedFile::copy_out); the
+// window is refilled between tokens, so that every token starts with at least
+// `token_room` bytes after it or the end of the file.
 class AsciiDecoder {
 public:
-    AsciiDecoder(Cursor& c, Plot& plot)
-        : c_(c), plot_(plot), begin_(c.bytes.data()), end_(begin_ + c.bytes.size()), s_(begin_ + c.pos), line_(c.line) {}
+    AsciiDecoder(Cursor& c, Plot& plot) : c_(c), plot_(plot), line_(c.line), window_(std::min(std::size_t{1} << 20, c.remaining())) {
+        fill_from(c.pos);
+    }
 
     void run() {
         const std::size_t n = plot_.variables.size();
@@ -286,20 +299,42 @@ public:
     }
 
 private:
+    static constexpr std::size_t token_room = 256;
+
+    void fill_from(std::size_t file_offset) {
+        offset_ = file_offset;
+        const std::size_t len = std::min(window_.size(), c_.bytes.size() - file_offset);
+        c_.file->copy_out(file_offset, len, window_.data());
+        s_ = window_.data();
+        end_ = s_ + len;
+        at_eof_ = file_offset + len == c_.bytes.size();
+    }
+
+    void make_room() {
+        if (!at_eof_ && static_cast<std::size_t>(end_ - s_) < token_room) fill_from(position());
+    }
+
+    std::size_t position() const { return offset_ + static_cast<std::size_t>(s_ - window_.data()); }
+
     void sync() {
-        c_.pos = static_cast<std::size_t>(s_ - begin_);
+        c_.pos = position();
         c_.line = line_;
     }
 
     void skip_blanks(std::uint64_t p) {
-        while (s_ != end_ && is_blank(*s_)) {
-            line_ += *s_ == '\n';
-            ++s_;
+        for (;;) {
+            while (s_ != end_ && is_blank(*s_)) {
+                line_ += *s_ == '\n';
+                ++s_;
+            }
+            if (s_ != end_ || at_eof_) break;
+            fill_from(position());
         }
         if (s_ == end_) {
             sync();
             throw errors::raw_truncated_values(c_.value_here(), p, plot_.point_count);
         }
+        make_room();
     }
 
     bool ends_token(const char* e) const { return e == end_ || is_blank(*e); }
@@ -315,11 +350,11 @@ private:
         s_ = e;
     }
 
-    // A number ending at a blank; a number cut by the end of the file is truncation,
-    // unless it is the very last value.
+    // A number ending at a blank (or at `terminator`); a number cut by the end of the
+    // file is truncation, unless it is the very last value.
     const char* read_number(const char* from, double& out, bool last, std::uint64_t p, char terminator) {
         auto [e, ec] = std::from_chars(from, end_, out);
-        if (ec == std::errc{} && e == end_ && !last) {
+        if (ec == std::errc{} && e == end_ && at_eof_ && !last) {
             sync();
             throw errors::raw_truncated_values(c_.value_here(), p, plot_.point_count);
         }
@@ -348,10 +383,12 @@ private:
 
     Cursor& c_;
     Plot& plot_;
-    const char* begin_;
-    const char* end_;
-    const char* s_;
     std::size_t line_;
+    std::vector<char> window_;
+    std::size_t offset_ = 0;  // file offset of window_[0]
+    const char* s_ = nullptr;
+    const char* end_ = nullptr;
+    bool at_eof_ = false;
 };
 
 // Passes over the values by counting non-blank lines (one per value), converting nothing.
@@ -374,7 +411,6 @@ void read_ascii(Cursor& c, Plot& plot, bool wanted) {
         throw errors::raw_too_many_points(c.value_here(), plot.point_count, c.remaining() / 2 / n);
     if (wanted) {
         allocate_columns(plot);
-        c.file->prefetch(c.pos, c.remaining());
         AsciiDecoder(c, plot).run();
         plot.decoded = true;
     } else {

@@ -188,3 +188,17 @@ TEST_CASE("a raw file written during a batch run (`ngspice -b -r`) pads its poin
     CHECK(f.plots[0].real[0].back() == doctest::Approx(20e-9));
     std::filesystem::remove_all(dir);
 }
+
+TEST_CASE("files larger than the reader's 1 MiB text window: binary and ASCII still agree") {
+    auto run = test::run_ngspice("* rc ladder, many points\nvin in 0 dc 0 sin(0 1 1meg)\nr1 in a 1k\nc1 a 0 1p\n"
+                                 "r2 a b 1k\nc2 b 0 1p\n.control\ntran 2n 100u 0 2n\nwrite big.raw\n"
+                                 "set filetype=ascii\nwrite big_ascii.raw\nquit 0\n.endc\n.end\n",
+                                 "mc-raw-big");
+    REQUIRE_MESSAGE(run.status == 0, run.output);
+    CHECK(std::filesystem::file_size(run.file("big_ascii.raw")) > (std::uintmax_t{3} << 20));
+    raw::RawFile b = raw::read_raw(run.file("big.raw"));
+    raw::RawFile a = raw::read_raw(run.file("big_ascii.raw"));
+    REQUIRE(b.plots.size() == 1);
+    CHECK(b.plots[0].point_count >= 50000);
+    check_binary_equals_ascii(b, a);
+}

@@ -12,10 +12,4 @@ InputError empty_file(const std::string& path) {
     return {"input.empty", Location(path), "the file is empty; expected an ngspice raw file, a `show` listing or a netlist"};
 }
 
-InputError unknown_file_kind(const std::string& path) {
-    return {"input.unknown-kind", Location(path, 1),
-            "cannot tell what this file is; expected an ngspice raw file (starting with `Title:`) "
-            "or the text of ngspice's `show` command (a `device` row under a model-type line)"};
-}
-
 }  // namespace mirrorcheck::errors

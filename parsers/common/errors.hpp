@@ -9,6 +9,5 @@ namespace mirrorcheck::errors {
 
 InputError cannot_open(const std::string& path, const std::string& reason);
 InputError empty_file(const std::string& path);
-InputError unknown_file_kind(const std::string& path);
 
 }  // namespace mirrorcheck::errors

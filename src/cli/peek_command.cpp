@@ -3,11 +3,12 @@
 #include <iostream>
 #include <memory>
 
-#include "parsers/common/errors.hpp"
 #include "parsers/common/input_kind.hpp"
 #include "parsers/listing/listing.hpp"
+#include "parsers/netlist/netlist.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/cli/usage_errors.hpp"
+#include "src/report/circuit_dump.hpp"
 #include "src/report/listing_dump.hpp"
 #include "src/report/raw_dump.hpp"
 
@@ -44,11 +45,18 @@ void peek_listing(const PeekOptions& o) {
     else std::cout << report::write_listing_table(l);
 }
 
+void peek_netlist(const PeekOptions& o) {
+    if (!o.vectors.empty() || !o.plots.empty()) throw usage::option_needs_raw(o.file);
+    Circuit circuit = netlist::read_netlist(o.file);
+    if (o.format == "json") std::cout << report::circuit_to_json(circuit).dump(2) << "\n";
+    else std::cout << report::write_circuit_table(circuit);
+}
+
 int run_peek(const PeekOptions& o) {
     switch (detect_input_kind(o.file)) {
         case InputKind::raw: peek_raw(o); break;
         case InputKind::listing: peek_listing(o); break;
-        case InputKind::netlist: throw errors::unknown_file_kind(o.file);
+        case InputKind::netlist: peek_netlist(o); break;
     }
     return 0;
 }
@@ -57,14 +65,15 @@ int run_peek(const PeekOptions& o) {
 
 void add_peek_command(CLI::App& app, int& status) {
     auto options = std::make_shared<PeekOptions>();
-    CLI::App* cmd = app.add_subcommand("peek", "Show what a raw file or `show` listing holds");
+    CLI::App* cmd = app.add_subcommand("peek", "Show what a raw file, `show` listing or netlist holds");
     cmd->footer(
         "Examples:\n"
         "  mirrorcheck peek run.raw                       plots, point counts and variables\n"
         "  mirrorcheck peek run.raw --vector v(out) --vector @m2[gm]\n"
         "  mirrorcheck peek run.raw --plot ac --format json\n"
-        "  mirrorcheck peek show.txt                      devices and their parameters");
-    cmd->add_option("FILE", options->file, "ngspice raw file (binary or ASCII) or `show` listing")
+        "  mirrorcheck peek show.txt                      devices and their parameters\n"
+        "  mirrorcheck peek amp.cir                       the flattened devices, named as ngspice names them");
+    cmd->add_option("FILE", options->file, "ngspice raw file (binary or ASCII), `show` listing, or netlist")
         ->required()
         ->check(CLI::ExistingFile);
     cmd->add_option("--vector", options->vectors,

@@ -12,7 +12,7 @@ InputError missing_vector(const std::string& path, const std::string& name) {
 }
 
 InputError option_needs_raw(const std::string& path) {
-    return {"usage.option-needs-raw", Location(path), "--vector and --plot apply to raw files only; this is a listing"};
+    return {"usage.option-needs-raw", Location(path), "--vector and --plot apply to raw files only; this file is a listing or a netlist"};
 }
 
 }  // namespace mirrorcheck::cli::usage

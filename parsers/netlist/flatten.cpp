@@ -1,0 +1,710 @@
+// Flattening: subcircuit expansion, element interpretation, model resolution (see flatten.hpp).
+#include "parsers/netlist/flatten.hpp"
+
+#include <algorithm>
+#include <array>
+#include <cctype>
+#include <unordered_set>
+
+#include "parsers/netlist/expression.hpp"
+#include "parsers/netlist/netlist_errors.hpp"
+
+namespace mirrorcheck::netlist::detail {
+
+namespace {
+
+// One level of the hierarchy being expanded.
+struct Instance {
+    const SubcktDef* def = nullptr;
+    const Instance* caller = nullptr;
+    Scope scope;
+    std::string path;                                     // "x1.x2"; empty at the top
+    // The path cut where a subcircuit defined inside another starts (ngspice expands those
+    // first): {"x1001_t", "x1"} names a resistor `r.x1001_t.r.x1.r1`.
+    std::vector<std::string> segments;
+    std::unordered_map<std::string, std::string> ports;   // port name -> the caller's net
+    std::vector<InstanceLevel> hierarchy;
+    // The `m` ngspice 39 writes onto every device line of this instance (see flatten.hpp).
+    std::optional<double> forced_m;
+};
+
+// An element line, tokenised and split into positional tokens and name=value pairs.
+struct Element {
+    const LogicalLine* line;
+    std::vector<Token> tokens;
+    LineParts parts;
+    std::string name;  // lower case
+    char letter;
+
+    explicit Element(const LogicalLine* l) : line(l), tokens(tokenize(*l)) {
+        parts = split_parts(*l, tokens, 1);
+        name = to_lower(tokens.at(0).text);
+        letter = name[0];
+    }
+    Location at(const Token& t) const { return line->locate(t.offset); }
+    Location end() const { return line->locate(line->text.size()); }
+    std::size_t count() const { return parts.positional.size(); }
+    const Token& positional(std::size_t i) const { return *parts.positional[i]; }
+    bool is_word(std::size_t i, std::string_view lower) const {
+        return i < count() && positional(i).kind == TokenKind::word && to_lower(positional(i).text) == lower;
+    }
+    const NamedValue* named(std::string_view key) const {
+        for (const auto& nv : parts.named)
+            if (nv.name == key) return &nv;
+        return nullptr;
+    }
+    // The line's text after the given positional token.
+    std::string text_after(std::size_t i) const {
+        std::size_t from = i < count() ? positional(i).end : 0;
+        std::string rest = line->text.substr(std::min(from, line->text.size()));
+        auto first = rest.find_first_not_of(" \t");
+        return first == std::string::npos ? std::string{} : rest.substr(first);
+    }
+};
+
+ValueText token_value(const LogicalLine& line, const Token& t) {
+    bool wrapped = t.kind == TokenKind::braced || t.kind == TokenKind::quoted;
+    return {t.text, &line, t.offset + (wrapped ? 1 : 0)};
+}
+
+InputError expression_error(const ExpressionError& e, const ValueText& v) {
+    switch (e.kind) {
+        case ExpressionError::Kind::undefined_name: return errors::undefined_parameter(v.where(e.offset), e.detail);
+        case ExpressionError::Kind::unknown_function:
+            return errors::unknown_function(v.where(e.offset), e.detail, e.arguments);
+        case ExpressionError::Kind::syntax: break;
+    }
+    return errors::bad_expression(v.where(e.offset), e.detail, v.text);
+}
+
+double evaluate(const ValueText& v, const Scope& scope) {
+    try {
+        return evaluate_text(v.text, scope);
+    } catch (const ExpressionError& e) {
+        throw expression_error(e, v);
+    }
+}
+
+// A value that is a string (`"0001"`) or names a string parameter, for XSPICE tables.
+const std::string* string_value(const ValueText& v, const Scope& scope) {
+    if (v.is_string) return &v.text;
+    return scope.find_text(to_lower(v.text));
+}
+
+// `.param both=or{and}`: string parameters joined, each written bare or in braces.
+std::optional<std::string> concatenate_strings(const std::string& text, const Scope& scope) {
+    std::string out;
+    std::size_t i = 0;
+    while (i < text.size()) {
+        bool braced = text[i] == '{';
+        std::size_t start = i + (braced ? 1 : 0);
+        std::size_t end = start;
+        while (end < text.size() && (std::isalnum(static_cast<unsigned char>(text[end])) || text[end] == '_')) ++end;
+        if (end == start || (braced && (end >= text.size() || text[end] != '}'))) return std::nullopt;
+        const std::string* piece = scope.find_text(to_lower(text.substr(start, end - start)));
+        if (!piece) return std::nullopt;
+        out += *piece;
+        i = end + (braced ? 1 : 0);
+    }
+    return out;
+}
+
+// Evaluates one assignment into `scope`; false when it names something not yet defined.
+bool assign(const NamedValue& nv, Scope& scope, const Scope& from) {
+    if (const std::string* text = string_value(nv.value, from)) {
+        scope.set_text(nv.name, *text);
+        return true;
+    }
+    try {
+        scope.set(nv.name, evaluate_text(nv.value.text, from));
+        return true;
+    } catch (const ExpressionError& e) {
+        if (e.kind == ExpressionError::Kind::syntax) {
+            if (auto joined = concatenate_strings(nv.value.text, from)) {
+                scope.set_text(nv.name, *joined);
+                return true;
+            }
+        }
+        if (e.kind != ExpressionError::Kind::undefined_name) throw expression_error(e, nv.value);
+        return false;
+    }
+}
+
+// Evaluates assignments in order, into `scope`, skipping names in `fixed`. An assignment
+// that names a parameter defined further on is retried once the others are known.
+void evaluate_params(const std::vector<NamedValue>& list, Scope& scope, const std::unordered_set<std::string>& fixed) {
+    std::vector<const NamedValue*> pending;
+    for (const NamedValue& nv : list) {
+        if (fixed.count(nv.name)) continue;
+        if (assign(nv, scope, scope)) std::erase_if(pending, [&](const NamedValue* p) { return p->name == nv.name; });
+        else pending.push_back(&nv);
+    }
+    while (!pending.empty()) {
+        std::size_t before = pending.size();
+        std::erase_if(pending, [&](const NamedValue* p) { return assign(*p, scope, scope); });
+        if (pending.size() == before) evaluate(pending.front()->value, scope);  // throws its error
+    }
+}
+
+void define_functions(const std::vector<FunctionDef>& functions, Scope& scope) {
+    for (const FunctionDef& f : functions) {
+        auto function = std::make_shared<UserFunction>();
+        function->parameters = f.parameters;
+        try {
+            function->body = Expression::compile(f.body.text);
+        } catch (const ExpressionError& e) {
+            throw expression_error(e, f.body);
+        }
+        scope.define(f.name, std::move(function));
+    }
+}
+
+std::optional<double> find_parameter(const std::vector<NamedValue>& list, std::string_view name, const Scope& scope) {
+    for (const NamedValue& nv : list)
+        if (nv.name == name) return evaluate(nv.value, scope);
+    return std::nullopt;
+}
+
+class Flattener {
+public:
+    // Each level is one C++ stack frame; no real design comes near.
+    static constexpr std::size_t max_depth = 500;
+
+    explicit Flattener(const Deck& deck) : deck_(deck) {}
+
+    Circuit run() {
+        Instance top;
+        top.def = &deck_.top;
+        if (deck_.temperature) top.scope.set("temper", *deck_.temperature);
+        define_functions(deck_.top.functions, top.scope);
+        collect_multiplied(deck_.top);
+        circuit_.reserve(deck_.top.elements.size());
+        evaluate_params(deck_.top.params, top.scope, {});
+        expand(top);
+        circuit_.title = deck_.title;
+        circuit_.control_blocks = deck_.control_blocks;
+        return std::move(circuit_);
+    }
+
+private:
+    const Deck& deck_;
+    Circuit circuit_;
+    std::unordered_map<std::string, std::shared_ptr<const Model>> models_;  // by ngspice name
+    std::unordered_set<std::string> multiplied_;  // subcircuits that some X line gives an m
+
+    void collect_multiplied(const SubcktDef& def) {
+        for (const LogicalLine* line : def.elements) {
+            if (line->text.empty() || (line->text[0] != 'x' && line->text[0] != 'X')) continue;
+            Element el(line);
+            if (el.named("m") && el.count() > 0) multiplied_.insert(to_lower(el.positional(el.count() - 1).text));
+        }
+        for (const auto& [name, child] : def.subckts) collect_multiplied(*child);
+    }
+
+    void expand(const Instance& inst) {
+        for (const LogicalLine* line : inst.def->elements) {
+            Element el(line);
+            if (el.letter == 'x') instantiate(inst, el);
+            else add(inst, el);
+        }
+    }
+
+    // ---- names -------------------------------------------------------------------------
+
+    static std::string device_name(const Instance& inst, const std::string& local) {
+        std::string name;
+        for (const std::string& segment : inst.segments) name += std::string(1, local[0]) + "." + segment + ".";
+        return name + local;
+    }
+
+    std::string net_name(const Instance& inst, const Token& t) const {
+        std::string node = to_lower(t.text);
+        if (node == "0" || node == "gnd") return "0";
+        if (deck_.globals.count(node)) return node;
+        if (auto it = inst.ports.find(node); it != inst.ports.end()) return it->second;
+        return inst.path.empty() ? node : inst.path + "." + node;
+    }
+
+    const Token& node_token(const Element& el, std::size_t i, std::string_view expected) const {
+        if (i >= el.count()) throw errors::missing_nodes(el.end(), el.name, expected);
+        const Token& t = el.positional(i);
+        if (t.kind != TokenKind::word) throw errors::netlist_syntax(el.at(t), "a node name", t.text);
+        return t;
+    }
+
+    // ---- subcircuits -------------------------------------------------------------------
+
+    const SubcktDef* find_subckt(const Instance& inst, const std::string& name) const {
+        for (const Instance* i = &inst; i; i = i->caller)
+            if (auto it = i->def->subckts.find(name); it != i->def->subckts.end()) return it->second.get();
+        return nullptr;
+    }
+
+    void instantiate(const Instance& inst, const Element& el) {
+        if (el.count() < 1) throw errors::missing_nodes(el.end(), el.name, "nodes and a subcircuit name");
+        const Token& name_token = el.positional(el.count() - 1);
+        if (name_token.kind != TokenKind::word)
+            throw errors::netlist_syntax(el.at(name_token), "a subcircuit name", name_token.text);
+        std::string subckt = to_lower(name_token.text);
+        const SubcktDef* def = find_subckt(inst, subckt);
+        if (!def) throw errors::unknown_subckt(el.at(name_token), subckt);
+        std::size_t nodes = el.count() - 1;
+        if (nodes != def->ports.size()) throw errors::wrong_node_count(el.at(name_token), el.name, def->ports.size(), nodes);
+        for (const Instance* i = &inst; i; i = i->caller)
+            if (i->def == def) throw errors::recursive_subckt(el.at(name_token), subckt);
+        if (inst.hierarchy.size() >= max_depth) throw errors::hierarchy_too_deep(el.at(name_token), max_depth);
+
+        Instance child;
+        child.def = def;
+        child.caller = &inst;
+        child.scope = Scope(&inst.scope);
+        child.path = inst.path.empty() ? el.name : inst.path + "." + el.name;
+        child.segments = inst.segments;
+        if (child.segments.empty() || def->parent != &deck_.top) child.segments.push_back(el.name);
+        else child.segments.back() += "." + el.name;
+        child.hierarchy = inst.hierarchy;
+        child.hierarchy.push_back({el.name, subckt, {*el.line->file, el.line->first_line()}});
+        for (std::size_t i = 0; i < nodes; ++i) child.ports[def->ports[i]] = net_name(inst, node_token(el, i, ""));
+
+        std::unordered_set<std::string> fixed;
+        bool declares_m = std::any_of(def->defaults.begin(), def->defaults.end(),
+                                      [](const NamedValue& nv) { return nv.name == "m"; });
+        define_functions(def->functions, child.scope);
+        std::optional<double> own_m;
+        for (const NamedValue& nv : el.parts.named) {
+            if (nv.name == "m") {
+                own_m = evaluate(nv.value, inst.scope);
+                continue;
+            }
+            if (!assign(nv, child.scope, inst.scope)) evaluate(nv.value, inst.scope);  // throws its error
+            fixed.insert(nv.name);
+        }
+        if (declares_m && own_m) {
+            child.scope.set("m", *own_m);
+            fixed.insert("m");
+        } else if (!declares_m && multiplied_.count(subckt)) {
+            // The caller's m is written after the line's own, and wins.
+            child.forced_m = inst.forced_m ? inst.forced_m : own_m.value_or(1);
+        }
+        evaluate_params(def->defaults, child.scope, fixed);
+        evaluate_params(def->params, child.scope, fixed);
+        expand(child);
+    }
+
+    // ---- models ------------------------------------------------------------------------
+
+    struct ModelHome {
+        const Instance* owner = nullptr;
+        const ModelCard* card = nullptr;
+        const std::vector<std::string>* bins = nullptr;
+    };
+
+    ModelHome find_model(const Instance& inst, const std::string& name) const {
+        for (const Instance* i = &inst; i; i = i->caller) {
+            if (auto it = i->def->models.find(name); it != i->def->models.end()) return {i, &it->second, nullptr};
+            if (auto it = i->def->bins.find(name); it != i->def->bins.end()) return {i, nullptr, &it->second};
+        }
+        return {};
+    }
+
+    bool names_model(const Instance& inst, const Token& t) const {
+        return t.kind == TokenKind::word && find_model(inst, to_lower(t.text)).owner != nullptr;
+    }
+
+    std::shared_ptr<const Model> resolve_model(const Instance& inst, const Element& el, const Token& t,
+                                               const Device& device) {
+        std::string name = to_lower(t.text);
+        ModelHome home = find_model(inst, name);
+        if (!home.owner) throw errors::unknown_model(el.at(t), name);
+        if (home.bins) home.card = choose_bin(*home.owner, el, t, name, *home.bins, device);
+        std::string ngspice_name;
+        for (const std::string& segment : home.owner->segments) ngspice_name += segment + ":";
+        ngspice_name += home.card->name;
+        auto& cached = models_[ngspice_name];
+        if (!cached) cached = evaluate_model(*home.card, home.owner->scope, name, ngspice_name);
+        return cached;
+    }
+
+    const ModelCard* choose_bin(const Instance& owner, const Element& el, const Token& t, const std::string& name,
+                                const std::vector<std::string>& bins, const Device& device) {
+        auto l = device.parameter("l");
+        auto w = device.parameter("w");
+        if (!l || !w) throw errors::unknown_model(el.at(t), name);
+        double width = *w;
+        if (deck_.divide_width_by_nf)
+            if (auto nf = device.parameter("nf"); nf && *nf > 0) width /= *nf;
+        // ngspice 39: the first bin, in the order of definition, whose closed ranges hold l
+        // and w within 1 nm.
+        constexpr double tolerance = 1e-9;
+        for (const std::string& bin : bins) {
+            const ModelCard& card = owner.def->models.at(bin);
+            auto limit = [&](std::string_view key, double fallback) {
+                return find_parameter(card.parameters, key, owner.scope).value_or(fallback);
+            };
+            auto inside = [&](double x, std::string_view low, std::string_view high) {
+                return x >= limit(low, 0) - tolerance && x <= limit(high, 1e300) + tolerance;
+            };
+            if (inside(*l, "lmin", "lmax") && inside(width, "wmin", "wmax")) return &card;
+        }
+        throw errors::no_model_bin(el.at(t), name, *l, width);
+    }
+
+    std::shared_ptr<const Model> evaluate_model(const ModelCard& card, const Scope& scope, const std::string& name,
+                                                const std::string& ngspice_name) {
+        auto model = std::make_shared<Model>();
+        model->name = name;
+        model->ngspice_name = ngspice_name;
+        model->type = card.type;
+        model->source = {*card.line->file, card.line->first_line()};
+        for (const NamedValue& nv : card.parameters) {
+            if (const std::string* text = string_value(nv.value, scope)) {
+                model->text[nv.name] = *text;
+                continue;
+            }
+            try {
+                model->parameters[nv.name] = evaluate_text(nv.value.text, scope);
+            } catch (const ExpressionError& e) {
+                // `version=4.8.2`, `type=n`: not numbers, kept as written.
+                if (e.kind != ExpressionError::Kind::syntax) throw expression_error(e, nv.value);
+                model->text[nv.name] = nv.value.text;
+            }
+        }
+        if (auto it = model->parameters.find("level"); it != model->parameters.end()) model->level = it->second;
+        if (auto it = model->parameters.find("version"); it != model->parameters.end()) model->version = it->second;
+        if (auto it = model->text.find("version"); it != model->text.end())
+            if (auto v = parse_spice_number(it->second.substr(0, it->second.find('.', it->second.find('.') + 1))))
+                model->version = *v;
+        return model;
+    }
+
+    // ---- devices -----------------------------------------------------------------------
+
+    Device start_device(const Instance& inst, const Element& el, DeviceKind kind) const {
+        Device d;
+        d.kind = kind;
+        d.name = device_name(inst, el.name);
+        d.local_name = el.name;
+        d.hierarchy = inst.hierarchy;
+        d.source = {*el.line->file, el.line->first_line()};
+        return d;
+    }
+
+    void connect(const Instance& inst, const Element& el, Device& d, std::size_t first,
+                 std::initializer_list<const char*> roles, std::string_view expected) const {
+        std::size_t i = first;
+        for (const char* role : roles) d.terminals.push_back({role, net_name(inst, node_token(el, i++, expected))});
+    }
+
+    void connect_n(const Instance& inst, const Element& el, Device& d, std::size_t count,
+                   const std::array<const char*, 6>& roles) const {
+        for (std::size_t i = 0; i < count; ++i)
+            d.terminals.push_back({roles[i], net_name(inst, node_token(el, i, ""))});
+    }
+
+    double value_at(const Instance& inst, const Element& el, std::size_t i) const {
+        const Token& t = el.positional(i);
+        if (!t.is_value()) throw errors::netlist_syntax(el.at(t), "a value", t.text);
+        return evaluate(token_value(*el.line, t), inst.scope);
+    }
+
+    void named_parameters(const Instance& inst, const Element& el, Device& d) const {
+        for (const NamedValue& nv : el.parts.named) d.parameters[nv.name] = evaluate(nv.value, inst.scope);
+    }
+
+    static void apply_multiplier(const Instance& inst, Device& d) {
+        static constexpr std::string_view takes_m = "rcldqjigfm";
+        if (inst.forced_m && takes_m.find(d.local_name[0]) != std::string_view::npos) d.parameters["m"] = *inst.forced_m;
+    }
+
+    void add(const Instance& inst, const Element& el) {
+        Device d = build(inst, el);
+        apply_multiplier(inst, d);
+        std::string name = d.name;
+        if (!circuit_.try_add_device(std::move(d))) throw errors::duplicate_device(el.line->locate(0), name);
+    }
+
+    Device build(const Instance& inst, const Element& el) {
+        switch (el.letter) {
+            case 'r': return passive(inst, el, DeviceKind::resistor, {"r", "resistance"});
+            case 'c': return passive(inst, el, DeviceKind::capacitor, {"c", "capacitance"});
+            case 'l': return passive(inst, el, DeviceKind::inductor, {"l", "inductance"});
+            case 'v': return source(inst, el, DeviceKind::vsource);
+            case 'i': return source(inst, el, DeviceKind::isource);
+            case 'e': return voltage_controlled(inst, el, DeviceKind::vcvs);
+            case 'g': return voltage_controlled(inst, el, DeviceKind::vccs);
+            case 'f': return current_controlled(inst, el, DeviceKind::cccs);
+            case 'h': return current_controlled(inst, el, DeviceKind::ccvs);
+            case 'b': return behavioural(inst, el);
+            case 'k': return coupling(inst, el);
+            case 'd': return with_model(inst, el, DeviceKind::diode, {"anode", "cathode"});
+            case 'j': return with_model(inst, el, DeviceKind::jfet, {"d", "g", "s"});
+            case 'z': return with_model(inst, el, DeviceKind::other, {"d", "g", "s"});
+            case 's': return with_model(inst, el, DeviceKind::other, {"pos", "neg", "cpos", "cneg"});
+            case 'm': return transistor(inst, el, DeviceKind::mosfet, {3, 4, 5, 6}, {"d", "g", "s", "b", "n5", "n6"});
+            case 'q': return transistor(inst, el, DeviceKind::bjt, {3, 4, 5}, {"c", "b", "e", "s", "t", ""});
+            case 'n': return transistor(inst, el, DeviceKind::other, {2, 3, 4, 5, 6}, {"n1", "n2", "n3", "n4", "n5", "n6"});
+            case 'w': return current_switch(inst, el);
+            case 't':
+            case 'o':
+            case 'y': return opaque(inst, el, {"pos1", "neg1", "pos2", "neg2"});
+            case 'u': return opaque(inst, el, {"pos", "neg", "ref"});
+            case 'a': return xspice(inst, el);
+            default: throw errors::unsupported_element(el.line->locate(0), el.name);
+        }
+    }
+
+    Device passive(const Instance& inst, const Element& el, DeviceKind kind, std::array<const char*, 2> value_keys) {
+        Device d = start_device(inst, el, kind);
+        connect(inst, el, d, 0, {"pos", "neg"}, "two nodes");
+        std::size_t i = 2;
+        if (i < el.count() && names_model(inst, el.positional(i))) {
+            ++i;
+        } else if (i < el.count() && el.positional(i).is_value()) {
+            main_value(token_value(*el.line, el.positional(i++)), inst, d);
+            if (i < el.count() && names_model(inst, el.positional(i))) ++i;
+        } else if (i < el.count()) {
+            throw errors::netlist_syntax(el.at(el.positional(i)), "a value or a model name", el.positional(i).text);
+        }
+        for (const NamedValue& nv : el.parts.named) {
+            if (std::find(value_keys.begin(), value_keys.end(), nv.name) != value_keys.end()) main_value(nv.value, inst, d);
+            else d.parameters[nv.name] = evaluate(nv.value, inst.scope);
+        }
+        for (std::size_t m = 2; m < i; ++m)
+            if (names_model(inst, el.positional(m))) d.model = resolve_model(inst, el, el.positional(m), d);
+        return d;
+    }
+
+    // A value that reads node voltages or currents (`r={v(x)}`) makes the element nonlinear:
+    // it is recorded as an expression, as for B sources.
+    void main_value(const ValueText& v, const Instance& inst, Device& d) const {
+        try {
+            Expression e = Expression::compile(v.text);
+            if (e.reads_circuit()) d.text["expression"] = v.text;
+            else d.value = e.evaluate(inst.scope);
+        } catch (const ExpressionError& e) {
+            throw expression_error(e, v);
+        }
+    }
+
+    static bool is_transient_function(const std::string& word) {
+        static const std::unordered_set<std::string> names{"pulse", "sin", "exp", "pwl", "sffm", "am", "trnoise",
+                                                           "trrandom", "distof1", "distof2"};
+        return names.count(word) != 0;
+    }
+
+    Device source(const Instance& inst, const Element& el, DeviceKind kind) {
+        Device d = start_device(inst, el, kind);
+        connect(inst, el, d, 0, {"pos", "neg"}, "two nodes");
+        std::size_t i = 2;
+        auto is_value = [&](std::size_t k) { return k < el.count() && el.positional(k).is_value(); };
+        while (i < el.count()) {
+            const Token& t = el.positional(i);
+            std::string word = t.kind == TokenKind::word ? to_lower(t.text) : std::string{};
+            if (word == "dc") {
+                if (!is_value(i + 1)) throw errors::netlist_syntax(el.end(), "a value after `dc`", "");
+                d.value = value_at(inst, el, i + 1);
+                i += 2;
+            } else if (word == "ac") {
+                d.parameters["acmag"] = is_value(i + 1) && !is_transient_function(to_lower(el.positional(i + 1).text))
+                                            ? value_at(inst, el, ++i)
+                                            : 1.0;
+                ++i;
+                if (is_value(i) && !is_transient_function(to_lower(el.positional(i).text)) &&
+                    to_lower(el.positional(i).text) != "dc")
+                    d.parameters["acphase"] = value_at(inst, el, i++);
+            } else if (is_transient_function(word)) {
+                std::size_t j = i + 1;
+                if (j < el.count() && el.positional(j).is('(')) {
+                    int depth = 0;
+                    for (; j < el.count(); ++j) {
+                        if (el.positional(j).is('(')) ++depth;
+                        if (el.positional(j).is(')') && --depth == 0) break;
+                    }
+                    if (j == el.count()) throw errors::unbalanced(el.at(el.positional(i + 1)), '(');
+                    ++j;
+                } else {
+                    while (j < el.count() && el.positional(j).is_value() && !el.is_word(j, "dc") && !el.is_word(j, "ac"))
+                        ++j;
+                }
+                std::size_t begin = t.offset;
+                std::size_t end = el.positional(j - 1).end;
+                d.text["transient"] = el.line->text.substr(begin, end - begin);
+                i = j;
+            } else if (t.is_value() && !d.value) {
+                d.value = value_at(inst, el, i++);
+            } else {
+                throw errors::netlist_syntax(el.at(t), "`dc`, `ac`, a value or a transient function", t.text);
+            }
+        }
+        named_parameters(inst, el, d);
+        if (auto it = d.parameters.find("dc"); it != d.parameters.end() && !d.value) d.value = it->second;
+        if (d.value) d.parameters["dc"] = *d.value;
+        return d;
+    }
+
+    // Reads `poly ( n )` at positional i; returns n and moves i past it.
+    std::size_t poly_dimension(const Instance& inst, const Element& el, std::size_t& i) const {
+        if (i + 3 >= el.count() || !el.positional(i + 1).is('(') || !el.positional(i + 3).is(')'))
+            throw errors::netlist_syntax(el.at(el.positional(i)), "`poly(n)`", el.positional(i).text);
+        double n = value_at(inst, el, i + 2);
+        if (n < 1 || n > 64 || n != static_cast<int>(n))
+            throw errors::netlist_syntax(el.at(el.positional(i + 2)), "a whole number of dimensions in `poly(n)`",
+                                         el.positional(i + 2).text);
+        i += 4;
+        return static_cast<std::size_t>(n);
+    }
+
+    Device voltage_controlled(const Instance& inst, const Element& el, DeviceKind kind) {
+        Device d = start_device(inst, el, kind);
+        connect(inst, el, d, 0, {"pos", "neg"}, "two output nodes");
+        static const std::unordered_set<std::string> keywords{"value", "vol", "cur", "table", "laplace", "freq",
+                                                              "and", "or", "nand", "nor"};
+        std::size_t i = 2;
+        std::string word = i < el.count() ? to_lower(el.positional(i).text) : std::string{};
+        bool behavioural = el.named("value") || el.named("vol") || el.named("cur") ||
+                           (i < el.count() && el.positional(i).kind == TokenKind::word && keywords.count(word));
+        if (el.is_word(i, "poly")) {
+            std::size_t n = poly_dimension(inst, el, i);
+            for (std::size_t k = 0; k < n; ++k) {
+                d.terminals.push_back({"cpos" + std::to_string(k + 1), net_name(inst, node_token(el, i++, "control nodes"))});
+                d.terminals.push_back({"cneg" + std::to_string(k + 1), net_name(inst, node_token(el, i++, "control nodes"))});
+            }
+            d.text["polynomial"] = el.text_after(i - 1);
+        } else if (behavioural) {
+            d.text["expression"] = el.text_after(1);
+        } else {
+            connect(inst, el, d, 2, {"cpos", "cneg"}, "two output and two control nodes, then the gain");
+            if (el.count() < 5) throw errors::missing_nodes(el.end(), el.name, "a gain after the four nodes");
+            d.value = value_at(inst, el, 4);
+            named_parameters(inst, el, d);
+        }
+        return d;
+    }
+
+    Device current_controlled(const Instance& inst, const Element& el, DeviceKind kind) {
+        Device d = start_device(inst, el, kind);
+        connect(inst, el, d, 0, {"pos", "neg"}, "two output nodes");
+        std::size_t i = 2;
+        std::size_t controls = 1;
+        bool poly = el.is_word(i, "poly");
+        if (poly) controls = poly_dimension(inst, el, i);
+        for (std::size_t k = 0; k < controls; ++k) {
+            const Token& t = node_token(el, i++, "the controlling voltage source");
+            std::string key = controls == 1 ? "control" : "control" + std::to_string(k + 1);
+            d.text[key] = device_name(inst, to_lower(t.text));
+        }
+        if (poly) {
+            d.text["polynomial"] = el.text_after(i - 1);
+        } else {
+            if (i >= el.count()) throw errors::missing_nodes(el.end(), el.name, "a gain after the controlling source");
+            d.value = value_at(inst, el, i);
+            named_parameters(inst, el, d);
+        }
+        return d;
+    }
+
+    Device behavioural(const Instance& inst, const Element& el) {
+        Device d = start_device(inst, el, DeviceKind::behavioural);
+        connect(inst, el, d, 0, {"pos", "neg"}, "two nodes");
+        d.text["expression"] = el.text_after(1);
+        return d;
+    }
+
+    Device coupling(const Instance& inst, const Element& el) {
+        Device d = start_device(inst, el, DeviceKind::coupling);
+        for (std::size_t k = 0; k < 2; ++k) {
+            const Token& t = node_token(el, k, "two inductor names and a coupling factor");
+            d.text["inductor" + std::to_string(k + 1)] = device_name(inst, to_lower(t.text));
+        }
+        if (el.count() < 3) throw errors::missing_nodes(el.end(), el.name, "a coupling factor after the inductors");
+        d.value = value_at(inst, el, 2);
+        return d;
+    }
+
+    Device with_model(const Instance& inst, const Element& el, DeviceKind kind, std::initializer_list<const char*> roles) {
+        Device d = start_device(inst, el, kind);
+        connect(inst, el, d, 0, roles, "nodes and a model name");
+        std::size_t i = roles.size();
+        if (i >= el.count()) throw errors::missing_nodes(el.end(), el.name, "a model name after the nodes");
+        const Token& model = el.positional(i);
+        if (kind != DeviceKind::other && i + 1 < el.count() && el.positional(i + 1).is_value() &&
+            parse_spice_number(el.positional(i + 1).text))
+            d.parameters["area"] = value_at(inst, el, i + 1);
+        named_parameters(inst, el, d);
+        d.model = resolve_model(inst, el, model, d);
+        return d;
+    }
+
+    Device transistor(const Instance& inst, const Element& el, DeviceKind kind, std::initializer_list<std::size_t> counts,
+                      const std::array<const char*, 6>& roles) {
+        Device d = start_device(inst, el, kind);
+        std::size_t nodes = 0;
+        for (std::size_t n : counts)
+            if (n < el.count() && names_model(inst, el.positional(n))) {
+                nodes = n;
+                break;
+            }
+        if (nodes == 0) {
+            std::size_t usual = *(counts.begin() + (kind == DeviceKind::mosfet ? 1 : 0));
+            if (usual >= el.count()) throw errors::missing_nodes(el.end(), el.name, "nodes and a model name");
+            throw errors::unknown_model(el.at(el.positional(usual)), to_lower(el.positional(usual).text));
+        }
+        connect_n(inst, el, d, nodes, roles);
+        if (nodes + 1 < el.count() && el.positional(nodes + 1).is_value() && parse_spice_number(el.positional(nodes + 1).text))
+            d.parameters["area"] = value_at(inst, el, nodes + 1);
+        named_parameters(inst, el, d);
+        if (kind == DeviceKind::mosfet) scale_geometry(d);
+        d.model = resolve_model(inst, el, el.positional(nodes), d);
+        return d;
+    }
+
+    void scale_geometry(Device& d) const {
+        if (deck_.scale == 1) return;
+        for (const char* key : {"w", "l", "pd", "ps"})
+            if (auto it = d.parameters.find(key); it != d.parameters.end()) it->second *= deck_.scale;
+        for (const char* key : {"ad", "as"})
+            if (auto it = d.parameters.find(key); it != d.parameters.end()) it->second *= deck_.scale * deck_.scale;
+    }
+
+    Device current_switch(const Instance& inst, const Element& el) {
+        Device d = start_device(inst, el, DeviceKind::other);
+        connect(inst, el, d, 0, {"pos", "neg"}, "two nodes, the controlling source and a model");
+        const Token& control = node_token(el, 2, "the controlling voltage source");
+        d.text["control"] = device_name(inst, to_lower(control.text));
+        if (el.count() < 4) throw errors::missing_nodes(el.end(), el.name, "a model name after the controlling source");
+        d.model = resolve_model(inst, el, el.positional(3), d);
+        return d;
+    }
+
+    Device opaque(const Instance& inst, const Element& el, std::initializer_list<const char*> roles) {
+        Device d = start_device(inst, el, DeviceKind::other);
+        connect(inst, el, d, 0, roles, std::to_string(roles.size()) + " nodes");
+        d.text["line"] = el.text_after(roles.size() - 1);
+        return d;
+    }
+
+    // XSPICE `A` devices: nodes (possibly in [ ] vectors, with %v %d ... modifiers) and a
+    // model last. The nets are kept; the connection semantics are not interpreted.
+    Device xspice(const Instance& inst, const Element& el) {
+        Device d = start_device(inst, el, DeviceKind::other);
+        if (el.count() < 2) throw errors::missing_nodes(el.end(), el.name, "connections and a model name");
+        std::size_t port = 0;
+        for (std::size_t i = 0; i + 1 < el.count(); ++i) {
+            const Token& t = el.positional(i);
+            if (t.kind != TokenKind::word || t.text[0] == '%' || t.text[0] == '~') continue;
+            std::string node = to_lower(t.text);
+            if (node == "null") continue;
+            d.terminals.push_back({"n" + std::to_string(++port), net_name(inst, t)});
+        }
+        const Token& model = el.positional(el.count() - 1);
+        if (names_model(inst, model)) d.model = resolve_model(inst, el, model, d);
+        d.text["line"] = el.text_after(0);
+        return d;
+    }
+};
+
+}  // namespace
+
+Circuit flatten(const Deck& deck) { return Flattener(deck).run(); }
+
+}  // namespace mirrorcheck::netlist::detail

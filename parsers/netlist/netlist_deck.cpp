@@ -1,0 +1,414 @@
+// Reading a deck: files, includes, library sections and definitions (see netlist_deck.hpp).
+#include "parsers/netlist/netlist_deck.hpp"
+
+#include <algorithm>
+#include <cctype>
+#include <system_error>
+
+#include "parsers/common/mapped_file.hpp"
+#include "parsers/netlist/expression.hpp"
+#include "parsers/netlist/netlist_errors.hpp"
+#include "src/model/circuit.hpp"
+
+namespace mirrorcheck::netlist::detail {
+
+namespace {
+
+bool is_bin_suffix(std::string_view s) {
+    return !s.empty() && std::all_of(s.begin(), s.end(), [](char c) { return std::isdigit(static_cast<unsigned char>(c)); });
+}
+
+bool starts_named_value(const std::vector<Token>& tokens, std::size_t i) {
+    return i + 1 < tokens.size() && tokens[i].kind == TokenKind::word && tokens[i + 1].is('=');
+}
+
+bool is_params_keyword(const Token& t) { return t.kind == TokenKind::word && to_lower(t.text) == "params:"; }
+
+ValueText value_of(const LogicalLine& line, const std::vector<Token>& tokens, std::size_t first, std::size_t last) {
+    if (last == first + 1 && tokens[first].kind != TokenKind::word && tokens[first].kind != TokenKind::punct)
+        return {tokens[first].text, &line, tokens[first].offset + 1, tokens[first].kind == TokenKind::string};
+    while (last > first + 1 && tokens[last - 1].is(',')) --last;
+    std::size_t begin = tokens[first].offset;
+    std::size_t end = tokens[last - 1].end;
+    std::string text = line.text.substr(begin, end - begin);
+    // A `.model name type (a=1 b=2)` card leaves the closing parenthesis on the last value.
+    long depth = 0;
+    for (char c : text) depth += c == '(' ? 1 : c == ')' ? -1 : 0;
+    while (depth < 0 && !text.empty() && text.back() == ')') {
+        text.pop_back();
+        while (!text.empty() && std::isspace(static_cast<unsigned char>(text.back()))) text.pop_back();
+        ++depth;
+    }
+    return {text, &line, begin, false};
+}
+
+class DeckReader {
+public:
+    explicit DeckReader(Deck& deck) : deck_(deck) { stack_.push_back(&deck_.top); }
+
+    void read_top(const std::filesystem::path& path) {
+        const SplitFile& file = load(path, nullptr, true);
+        deck_.title = file.title;
+        active_.push_back(canonical_key(path, ""));
+        run(file, path, "");
+        active_.pop_back();
+        if (control_) throw errors::unterminated_block(control_where_, ".control", ".endc");
+        if (!conditionals_.empty()) throw errors::unterminated_block(conditionals_.back().where, ".if", ".endif");
+        if (stack_.size() > 1)
+            throw errors::unterminated_block(stack_.back()->line->locate(0), ".subckt " + stack_.back()->name, ".ends");
+    }
+
+private:
+    Deck& deck_;
+    std::vector<SubcktDef*> stack_;
+    std::vector<std::string> active_;  // files and sections being read, for cycles
+    // `.if` blocks: for each open one, whether a branch was taken and whether lines are read.
+    struct Conditional {
+        bool taken = false;
+        bool reading = false;
+        Location where;
+    };
+    std::vector<Conditional> conditionals_;
+    bool control_ = false;
+    bool ended_ = false;
+    Location control_where_;
+    std::string control_text_;
+
+    static std::string canonical_key(const std::filesystem::path& path, const std::string& section) {
+        std::error_code ec;
+        auto canonical = std::filesystem::weakly_canonical(path, ec);
+        return (ec ? path : canonical).string() + "\n" + section;
+    }
+
+    // Reads and splits a file once; the top file is split apart, its first line a title.
+    const SplitFile& load(const std::filesystem::path& path, const Location* from, bool title) {
+        std::string key = canonical_key(path, title ? "title" : "");
+        auto it = deck_.files.find(key);
+        if (it != deck_.files.end()) return *it->second;
+        std::unique_ptr<MappedFile> mapped;
+        try {
+            mapped = std::make_unique<MappedFile>(path);
+        } catch (const InputError& e) {
+            if (!from) throw;
+            throw errors::missing_include(*from, path.string(), e.message());
+        }
+        deck_.file_names.push_back(path.string());
+        auto split = std::make_unique<SplitFile>(split_lines(mapped->bytes(), &deck_.file_names.back(), title));
+        return *deck_.files.emplace(key, std::move(split)).first->second;
+    }
+
+    // Reads a file's lines; with a section, only the lines of its `.lib section` block.
+    // Returns false when the section is not in the file.
+    bool run(const SplitFile& file, const std::filesystem::path& path, const std::string& section) {
+        bool in_section = section.empty();
+        bool found = section.empty();
+        std::string skipping;  // a `.lib name` block being skipped
+        for (const LogicalLine& line : file.lines) {
+            if (ended_) break;
+            if (control_) {
+                control_line(line);
+                continue;
+            }
+            std::string head = first_word(line);
+            if (head == ".lib" || head == ".endl") {
+                std::vector<Token> tokens = tokenize(line);
+                if (head == ".lib" && tokens.size() == 2) {
+                    std::string name = to_lower(tokens[1].text);
+                    if (!section.empty() && name == section && !in_section) {
+                        in_section = found = true;
+                    } else if (skipping.empty() && in_section) {
+                        skipping = name;
+                    }
+                    continue;
+                }
+                if (head == ".endl") {
+                    if (!skipping.empty()) skipping.clear();
+                    else if (!section.empty() && in_section) return true;
+                    continue;
+                }
+            }
+            if (!in_section || !skipping.empty()) continue;
+            if (conditional(line)) continue;
+            statement(line, path);
+        }
+        return found;
+    }
+
+    static std::string first_word(const LogicalLine& line) {
+        std::size_t end = 0;
+        while (end < line.text.size() && !std::isspace(static_cast<unsigned char>(line.text[end]))) ++end;
+        return to_lower(std::string_view(line.text).substr(0, end));
+    }
+
+    void control_line(const LogicalLine& line) {
+        if (first_word(line) == ".endc") {
+            control_ = false;
+            deck_.control_blocks.push_back(std::move(control_text_));
+            control_text_.clear();
+            return;
+        }
+        control_text_ += line.text;
+        control_text_ += '\n';
+    }
+
+    SubcktDef& current() { return *stack_.back(); }
+
+    bool reading() const { return conditionals_.empty() || conditionals_.back().reading; }
+
+    // `.if (cond)` / `.elseif (cond)` / `.else` / `.endif`, conditions on the global
+    // parameters read so far (ngspice also accepts `=` for `==`). Returns whether the line
+    // was consumed: a conditional, or a line inside a branch that is not taken.
+    bool conditional(const LogicalLine& line) {
+        std::string head = first_word(line);
+        bool outer = conditionals_.size() < 2 || conditionals_[conditionals_.size() - 2].reading;
+        if (head == ".if") {
+            bool enclosing = reading();
+            Conditional c{false, false, line.locate(0)};
+            if (enclosing) c.taken = c.reading = condition(line, head.size());
+            conditionals_.push_back(c);
+            return true;
+        }
+        if (head == ".elseif" || head == ".else" || head == ".endif") {
+            if (conditionals_.empty()) throw errors::stray_statement(line.locate(0), head);
+            Conditional& c = conditionals_.back();
+            if (head == ".endif") {
+                conditionals_.pop_back();
+            } else if (c.taken || !outer) {
+                c.reading = false;
+            } else {
+                c.taken = c.reading = head == ".else" || condition(line, head.size());
+            }
+            return true;
+        }
+        return !reading();
+    }
+
+    bool condition(const LogicalLine& line, std::size_t after) {
+        std::string text = line.text.substr(after);
+        for (std::size_t i = 0; i < text.size(); ++i) {
+            bool lone = text[i] == '=' && (i == 0 || std::string_view("=<>!").find(text[i - 1]) == std::string_view::npos) &&
+                        (i + 1 == text.size() || text[i + 1] != '=');
+            if (lone) text.insert(i++, 1, '=');
+        }
+        Scope globals;
+        for (const NamedValue& nv : deck_.top.params) {
+            try {
+                globals.set(nv.name, evaluate_text(nv.value.text, globals));
+            } catch (const ExpressionError&) {
+                // Not a number (or not yet known): a condition that uses it will say so.
+            }
+        }
+        try {
+            return evaluate_text(text, globals) != 0;
+        } catch (const ExpressionError& e) {
+            Location where = line.locate(after + e.offset);
+            if (e.kind == ExpressionError::Kind::undefined_name) throw errors::undefined_parameter(where, e.detail);
+            throw errors::bad_expression(where, e.detail, text);
+        }
+    }
+
+    void statement(const LogicalLine& line, const std::filesystem::path& path) {
+        std::string head = first_word(line);
+        if (head.empty()) return;
+        if (head[0] != '.') {
+            if (!std::isalpha(static_cast<unsigned char>(head[0])))
+                throw errors::netlist_syntax(line.locate(0), "an element name (a letter first) or a `.` statement",
+                                             head);
+            current().elements.push_back(&line);
+            return;
+        }
+        if (head == ".control") {
+            control_ = true;
+            control_where_ = line.locate(0);
+            return;
+        }
+        if (head == ".end") {
+            ended_ = true;
+            return;
+        }
+        if (head == ".endc") throw errors::stray_statement(line.locate(0), ".endc");
+        std::vector<Token> tokens = tokenize(line);
+        if (head == ".subckt") return open_subckt(line, tokens);
+        if (head == ".ends") return close_subckt(line);
+        if (head == ".model") return model(line, tokens);
+        if (head == ".param") return param(line, tokens);
+        if (head == ".func") return function(line, tokens);
+        if (head == ".include" || head == ".inc") return include(line, tokens, path);
+        if (head == ".lib") return library(line, tokens, path);
+        if (head == ".global") return global(tokens);
+        if (head == ".option" || head == ".options" || head == ".opt") return option(line, tokens);
+        if (head == ".temp" && tokens.size() >= 2) {
+            if (auto t = parse_spice_number(tokens[1].text)) deck_.temperature = *t;
+            return;
+        }
+        // Analyses, outputs and the rest (.tran, .op, .save, .meas, .func, ...) do not change the circuit.
+    }
+
+    void open_subckt(const LogicalLine& line, const std::vector<Token>& tokens) {
+        if (tokens.size() < 2 || tokens[1].kind != TokenKind::word)
+            throw errors::netlist_syntax(line.locate(line.text.size()), "a subcircuit name after `.subckt`",
+                                         tokens.size() > 1 ? tokens[1].text : "");
+        auto def = std::make_unique<SubcktDef>();
+        def->name = to_lower(tokens[1].text);
+        def->parent = &current();
+        def->line = &line;
+        std::size_t i = 2;
+        for (; i < tokens.size() && !starts_named_value(tokens, i) && !is_params_keyword(tokens[i]); ++i) {
+            if (tokens[i].kind != TokenKind::word)
+                throw errors::netlist_syntax(line.locate(tokens[i].offset), "a port name or `name=value`",
+                                             tokens[i].text);
+            def->ports.push_back(to_lower(tokens[i].text));
+        }
+        def->defaults = split_parts(line, tokens, i).named;
+        SubcktDef* raw = def.get();
+        current().subckts[def->name] = std::move(def);
+        stack_.push_back(raw);
+    }
+
+    void close_subckt(const LogicalLine& line) {
+        if (stack_.size() == 1) throw errors::stray_statement(line.locate(0), ".ends");
+        stack_.pop_back();
+    }
+
+    void model(const LogicalLine& line, const std::vector<Token>& tokens) {
+        if (tokens.size() < 3 || tokens[1].kind != TokenKind::word || tokens[2].kind != TokenKind::word)
+            throw errors::netlist_syntax(line.locate(tokens.size() > 1 ? tokens.back().end : line.text.size()),
+                                         "`.model name type (parameters)`", "");
+        ModelCard card;
+        card.name = to_lower(tokens[1].text);
+        card.type = to_lower(tokens[2].text);
+        card.line = &line;
+        card.parameters = split_parts(line, tokens, 3).named;
+        auto dot = card.name.rfind('.');
+        if (dot != std::string::npos && dot > 0 && is_bin_suffix(std::string_view(card.name).substr(dot + 1))) {
+            auto& bins = current().bins[card.name.substr(0, dot)];
+            if (std::find(bins.begin(), bins.end(), card.name) == bins.end()) bins.push_back(card.name);
+        }
+        current().models[card.name] = std::move(card);
+    }
+
+    void param(const LogicalLine& line, const std::vector<Token>& tokens) {
+        LineParts parts = split_parts(line, tokens, 1, true);
+        if (!parts.positional.empty())
+            throw errors::netlist_syntax(line.locate(parts.positional.front()->offset), "`name=value`",
+                                         parts.positional.front()->text);
+        for (auto& nv : parts.named) current().params.push_back(std::move(nv));
+    }
+
+    // `.func name(a, b) {expression}`, also with `=` before the body or a bare body.
+    void function(const LogicalLine& line, const std::vector<Token>& tokens) {
+        if (tokens.size() < 4 || tokens[1].kind != TokenKind::word || !tokens[2].is('('))
+            throw errors::netlist_syntax(line.locate(tokens.size() > 1 ? tokens[1].offset : line.text.size()),
+                                         "`.func name(arguments) {expression}`", tokens.size() > 1 ? tokens[1].text : "");
+        FunctionDef f;
+        f.name = to_lower(tokens[1].text);
+        std::size_t i = 3;
+        for (; i < tokens.size() && !tokens[i].is(')'); ++i) {
+            if (tokens[i].is(',')) continue;
+            if (tokens[i].kind != TokenKind::word)
+                throw errors::netlist_syntax(line.locate(tokens[i].offset), "an argument name", tokens[i].text);
+            f.parameters.push_back(to_lower(tokens[i].text));
+        }
+        ++i;
+        if (i < tokens.size() && tokens[i].is('=')) ++i;
+        if (i >= tokens.size())
+            throw errors::netlist_syntax(line.locate(line.text.size()), "the function's expression", "");
+        f.body = value_of(line, tokens, i, tokens.size());
+        current().functions.push_back(std::move(f));
+    }
+
+    static std::string path_argument(const LogicalLine& line, const std::vector<Token>& tokens, std::size_t i,
+                                     std::string_view what) {
+        if (i >= tokens.size()) throw errors::netlist_syntax(line.locate(line.text.size()), what, "");
+        if (tokens[i].kind == TokenKind::punct) throw errors::netlist_syntax(line.locate(tokens[i].offset), what, tokens[i].text);
+        return tokens[i].text;
+    }
+
+    void include(const LogicalLine& line, const std::vector<Token>& tokens, const std::filesystem::path& from) {
+        std::string name = path_argument(line, tokens, 1, "a file name after `.include`");
+        read_file(line, from.parent_path() / name, "");
+    }
+
+    void library(const LogicalLine& line, const std::vector<Token>& tokens, const std::filesystem::path& from) {
+        // `.lib name` (a section start) is handled by run(); here `.lib file section`.
+        std::string name = path_argument(line, tokens, 1, "a file name after `.lib`");
+        if (tokens.size() < 3)
+            throw errors::netlist_syntax(line.locate(line.text.size()), "a section name after `.lib file`", "");
+        read_file(line, from.parent_path() / name, to_lower(tokens[2].text));
+    }
+
+    void read_file(const LogicalLine& line, const std::filesystem::path& path, const std::string& section) {
+        Location where = line.locate(0);
+        std::string key = canonical_key(path, section);
+        if (std::find(active_.begin(), active_.end(), key) != active_.end())
+            throw errors::include_cycle(where, section.empty() ? path.string() : path.string() + " " + section);
+        const SplitFile& file = load(path, &where, false);
+        active_.push_back(key);
+        bool ended = ended_;
+        if (!run(file, path, section)) throw errors::missing_lib_section(where, path.string(), section);
+        ended_ = ended;  // `.end` in an included file ends only that file
+        active_.pop_back();
+    }
+
+    void global(const std::vector<Token>& tokens) {
+        for (std::size_t i = 1; i < tokens.size(); ++i)
+            if (tokens[i].kind == TokenKind::word) deck_.globals.insert(to_lower(tokens[i].text));
+    }
+
+    void option(const LogicalLine& line, const std::vector<Token>& tokens) {
+        for (const NamedValue& nv : split_parts(line, tokens, 1).named) {
+            if (nv.name == "scale") {
+                auto scale = parse_spice_number(nv.value.text);
+                if (!scale || *scale <= 0)
+                    throw errors::netlist_syntax(nv.value.where(), "a positive number for `scale`", nv.value.text);
+                deck_.scale = *scale;
+            } else if (nv.name == "wnflag") {
+                deck_.divide_width_by_nf = parse_spice_number(nv.value.text).value_or(0) != 0;
+            }
+        }
+    }
+};
+
+}  // namespace
+
+LineParts split_parts(const LogicalLine& line, const std::vector<Token>& tokens, std::size_t first, bool greedy) {
+    LineParts parts;
+    std::size_t i = first;
+    auto value_continues = [&](std::size_t k, int depth) {
+        if (starts_named_value(tokens, k) || is_params_keyword(tokens[k])) return false;
+        return greedy || depth > 0 || tokens[k].offset == tokens[k - 1].end;
+    };
+    while (i < tokens.size()) {
+        if (is_params_keyword(tokens[i])) {
+            ++i;
+            continue;
+        }
+        if (!starts_named_value(tokens, i)) {
+            parts.positional.push_back(&tokens[i]);
+            ++i;
+            continue;
+        }
+        std::size_t value_begin = i + 2;
+        if (value_begin >= tokens.size() || starts_named_value(tokens, value_begin) || tokens[value_begin].is(')'))
+            throw errors::netlist_syntax(line.locate(tokens[i + 1].end), "a value after `" + tokens[i].text + "=`",
+                                         value_begin < tokens.size() ? tokens[value_begin].text : "");
+        std::size_t value_end = value_begin + 1;
+        int depth = tokens[value_begin].is('(') ? 1 : 0;
+        while (value_end < tokens.size() && value_continues(value_end, depth)) {
+            depth += tokens[value_end].is('(') ? 1 : tokens[value_end].is(')') ? -1 : 0;
+            ++value_end;
+        }
+        parts.named.push_back({to_lower(tokens[i].text), value_of(line, tokens, value_begin, value_end)});
+        i = value_end;
+    }
+    return parts;
+}
+
+std::unique_ptr<Deck> read_deck(const std::filesystem::path& path) {
+    auto deck = std::make_unique<Deck>();
+    DeckReader reader(*deck);
+    reader.read_top(path);
+    return deck;
+}
+
+}  // namespace mirrorcheck::netlist::detail

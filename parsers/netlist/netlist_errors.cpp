@@ -1,0 +1,112 @@
+// The netlist reader's error catalogue: messages for the person at the terminal.
+#include "parsers/netlist/netlist_errors.hpp"
+
+#include <fmt/format.h>
+
+namespace mirrorcheck::errors {
+
+InputError netlist_syntax(const Location& where, std::string_view expected, std::string_view found) {
+    if (found.empty()) return {"netlist.syntax", where, fmt::format("expected {}, found the end of the line", expected)};
+    return {"netlist.syntax", where, fmt::format("expected {}, found `{}`", expected, found)};
+}
+
+InputError unbalanced(const Location& where, char opener) {
+    char closer = opener == '{' ? '}' : opener == '(' ? ')' : opener;
+    return {"netlist.unbalanced", where,
+            fmt::format("`{}` is never closed; expected a matching `{}` on this line or its `+` continuations",
+                        opener, closer)};
+}
+
+InputError undefined_parameter(const Location& where, std::string_view name) {
+    return {"netlist.undefined-parameter", where,
+            fmt::format("parameter `{}` is not defined; define it with `.param {}=...` or pass it on the X line",
+                        name, name)};
+}
+
+InputError unknown_function(const Location& where, std::string_view name, std::size_t arguments) {
+    return {"netlist.unknown-function", where,
+            fmt::format("`{}` with {} argument(s) is not a function this reader knows "
+                        "(sqrt, exp, log, log10, abs, min, max, pow, sin, cos, tan, atan, floor, ceil, int, ...)",
+                        name, arguments)};
+}
+
+InputError bad_expression(const Location& where, std::string_view expected, std::string_view text) {
+    return {"netlist.bad-expression", where, fmt::format("expected {} in the expression `{}`", expected, text)};
+}
+
+InputError unknown_model(const Location& where, std::string_view name) {
+    return {"netlist.unknown-model", where,
+            fmt::format("no `.model {}` is visible here; define it, or include the file that does", name)};
+}
+
+InputError no_model_bin(const Location& where, std::string_view name, double l, double w) {
+    return {"netlist.no-model-bin", where,
+            fmt::format("none of the binned models `{}.N` covers l={:g} m, w={:g} m (their lmin/lmax/wmin/wmax)",
+                        name, l, w)};
+}
+
+InputError unknown_subckt(const Location& where, std::string_view name) {
+    return {"netlist.unknown-subckt", where,
+            fmt::format("no `.subckt {}` is visible here; define it, or include the file that does", name)};
+}
+
+InputError wrong_node_count(const Location& where, std::string_view device, std::size_t expected, std::size_t found) {
+    return {"netlist.node-count", where,
+            fmt::format("`{}` connects {} node(s) but its subcircuit has {} port(s)", device, found, expected)};
+}
+
+InputError missing_nodes(const Location& where, std::string_view device, std::string_view expected) {
+    return {"netlist.node-count", where, fmt::format("`{}` is incomplete: expected {}", device, expected)};
+}
+
+InputError recursive_subckt(const Location& where, std::string_view name) {
+    return {"netlist.recursive-subckt", where,
+            fmt::format("subcircuit `{}` instantiates itself (directly or through others); the hierarchy must end",
+                        name)};
+}
+
+InputError hierarchy_too_deep(const Location& where, std::size_t levels) {
+    return {"netlist.too-deep", where,
+            fmt::format("subcircuits are nested more than {} levels deep here; this reader stops there", levels)};
+}
+
+InputError missing_include(const Location& where, std::string_view file, std::string_view reason) {
+    return {"netlist.missing-include", where,
+            fmt::format("cannot read the included file `{}`: {} (paths are relative to the including file)", file,
+                        reason)};
+}
+
+InputError include_cycle(const Location& where, std::string_view file) {
+    return {"netlist.include-cycle", where,
+            fmt::format("`{}` is already being read: the includes form a cycle", file)};
+}
+
+InputError missing_lib_section(const Location& where, std::string_view file, std::string_view section) {
+    return {"netlist.missing-lib-section", where,
+            fmt::format("`{}` has no `.lib {}` ... `.endl` section", file, section)};
+}
+
+InputError unterminated_block(const Location& where, std::string_view opener, std::string_view closer) {
+    return {"netlist.unterminated", where, fmt::format("`{}` is never closed; expected `{}`", opener, closer)};
+}
+
+InputError stray_statement(const Location& where, std::string_view statement) {
+    return {"netlist.stray-statement", where,
+            fmt::format("`{}` has no matching opening statement here", statement)};
+}
+
+InputError continuation_without_line(const Location& where) {
+    return {"netlist.stray-continuation", where,
+            "a `+` continuation line must follow an element or statement line"};
+}
+
+InputError unsupported_element(const Location& where, std::string_view name) {
+    return {"netlist.unsupported", where,
+            fmt::format("element `{}` is of a kind this reader does not support (its first letter)", name)};
+}
+
+InputError duplicate_device(const Location& where, std::string_view name) {
+    return {"netlist.duplicate-device", where, fmt::format("device `{}` is defined twice", name)};
+}
+
+}  // namespace mirrorcheck::errors

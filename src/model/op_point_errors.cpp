@@ -1,0 +1,21 @@
+#include "src/model/op_point_errors.hpp"
+
+#include <fmt/format.h>
+#include <fmt/ranges.h>
+
+namespace mirrorcheck::errors {
+
+InputError op_missing_parameters(const std::string& origin, const std::vector<MissingQuantities>& missing) {
+    std::string list, saves;
+    for (const auto& m : missing) {
+        list += fmt::format("\n  {}: {}", m.device, fmt::join(m.quantities, ", "));
+        for (const auto& n : m.ngspice_names) saves += fmt::format(" @{}[{}]", m.device, n);
+    }
+    return {"op.missing-parameters", Location(origin),
+            fmt::format("the operating point lacks what the review needs for {} device{}:{}\n"
+                        "Either add to the deck's control block, before `op`:\n  save all{}\n"
+                        "or write ngspice's listing after `op` with `show all > show.txt` and pass that file.",
+                        missing.size(), missing.size() == 1 ? "" : "s", list, saves)};
+}
+
+}  // namespace mirrorcheck::errors

@@ -19,6 +19,7 @@
 #include <utility>
 
 #include "parsers/common/errors.hpp"
+#include "parsers/common/text.hpp"
 #include "parsers/common/mapped_file.hpp"
 #include "parsers/listing/listing_errors.hpp"
 
@@ -74,13 +75,6 @@ bool is_blank(std::string_view text) { return std::all_of(text.begin(), text.end
 bool is_alpha(char c) { return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z'); }
 
 bool is_digit(char c) { return c >= '0' && c <= '9'; }
-
-std::string to_lower(std::string_view text) {
-    std::string lower(text);
-    for (char& c : lower)
-        if (c >= 'A' && c <= 'Z') c = static_cast<char>(c - 'A' + 'a');
-    return lower;
-}
 
 std::string_view trim_end(std::string_view text) {
     while (!text.empty() && is_space(text.back())) text.remove_suffix(1);

@@ -4,16 +4,11 @@
 #include <algorithm>
 #include <cctype>
 
+#include "parsers/common/text.hpp"
 #include "parsers/raw/raw.hpp"
 
 namespace mirrorcheck::raw {
 namespace {
-
-std::string lower(std::string_view s) {
-    std::string out(s);
-    std::transform(out.begin(), out.end(), out.begin(), [](unsigned char c) { return std::tolower(c); });
-    return out;
-}
 
 // `v(x)` -> `x`; returns nullopt when `s` is not wrapped as `<letter>(...)`. A wrapper
 // with a comma (`v(a,b)`, a differential voltage) is not unwrapped.
@@ -27,7 +22,7 @@ std::optional<std::string> unwrap(const std::string& s, char letter) {
 }  // namespace
 
 std::string canonical_vector_name(std::string_view name) {
-    std::string s = lower(name);
+    std::string s = to_lower(name);
     if (auto inner = unwrap(s, 'v')) return *inner;
     if (auto inner = unwrap(s, 'i')) return (*inner)[0] == '@' ? *inner : *inner + "#branch";
     return s;
@@ -45,7 +40,7 @@ std::string Plot::kind() const {
         {"dc transfer", "dc"},     {"transient", "tran"},    {"noise", "noise"},
         {"integrated noise", "noise"}, {"sensitivity", "sens"}, {"ac sensitivity", "sens"},
         {"pole-zero", "pz"}};
-    const std::string n = lower(name);
+    const std::string n = to_lower(name);
     for (auto [prefix, kind] : kinds)
         if (n.starts_with(prefix)) return std::string(kind);
     return {};

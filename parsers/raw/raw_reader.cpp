@@ -11,6 +11,7 @@
 
 #include "parsers/common/errors.hpp"
 #include "parsers/common/mapped_file.hpp"
+#include "parsers/common/text.hpp"
 #include "parsers/raw/raw.hpp"
 #include "parsers/raw/raw_errors.hpp"
 #include "parsers/raw/raw_header_grammar.hpp"
@@ -72,11 +73,6 @@ struct Cursor {
         }
     }
 };
-
-bool iequals(std::string_view a, std::string_view b) {
-    return a.size() == b.size() &&
-           std::equal(a.begin(), a.end(), b.begin(), [](char x, char y) { return std::tolower(x) == std::tolower(y); });
-}
 
 std::string trim(std::string_view s) {
     auto b = s.find_first_not_of(" \t");

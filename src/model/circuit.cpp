@@ -5,13 +5,6 @@
 
 namespace mirrorcheck {
 
-std::string to_lower(std::string_view text) {
-    std::string out(text);
-    for (char& c : out)
-        if (c >= 'A' && c <= 'Z') c = static_cast<char>(c - 'A' + 'a');
-    return out;
-}
-
 std::string_view to_string(DeviceKind kind) {
     switch (kind) {
         case DeviceKind::resistor: return "resistor";

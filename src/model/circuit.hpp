@@ -16,6 +16,8 @@
 #include <unordered_map>
 #include <vector>
 
+#include "parsers/common/text.hpp"
+
 namespace mirrorcheck {
 
 enum class DeviceKind {
@@ -128,7 +130,5 @@ private:
     std::unordered_map<std::string, std::size_t> net_index_;
 };
 
-// ASCII lower case, the way ngspice folds names.
-std::string to_lower(std::string_view text);
 
 }  // namespace mirrorcheck

@@ -1,0 +1,65 @@
+// Recognition of current mirrors and transistor stacks in a flattened circuit, from the
+// netlist alone (no operating point). The rules are described in find_mirrors.cpp.
+#pragma once
+
+#include <cstddef>
+#include <optional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "src/model/circuit.hpp"
+
+namespace mirrorcheck {
+
+// The topology of a mirror; `stack` is a transistor stack that matches no mirror family.
+enum class Family {
+    simple,
+    degenerated,
+    widlar,
+    cascode,
+    wide_swing_cascode,
+    wilson,
+    improved_wilson,
+    regulated_cascode,
+    beta_helper,
+    stack,
+};
+
+// "simple", "degenerated", "widlar", "cascode", "wide-swing-cascode", "wilson",
+// "improved-wilson", "regulated-cascode", "beta-helper", "stack".
+std::string_view to_string(Family family);
+
+// One output branch: the stack of transistors from the rail side up to the output node.
+struct MirrorOutput {
+    std::string node;                  // the net at the drain or collector of the top device
+    std::vector<std::size_t> devices;  // indices into Circuit::devices(), bottom (rail side) to top
+    // Per device: the resistor between its source or emitter and the level below (or the
+    // rail), when there is one.
+    std::vector<std::optional<std::size_t>> degeneration;
+    // Sizing of the bottom device over the reference's bottom device: m·nf·W/L for MOS,
+    // area·m for bipolar. Empty for a stack, which has no reference.
+    std::optional<double> design_ratio;
+};
+
+// A current mirror (one reference, one or more outputs of the same family) or a stack.
+struct Mirror {
+    std::string id;                         // "<kind>-<family>:<top device of the first output>"
+    Family family = Family::simple;
+    std::string kind;                       // nmos, pmos, npn or pnp
+    std::vector<std::size_t> reference;     // reference-side devices, bottom to top; empty for a stack
+    // Per reference device: its source or emitter resistor, as for MirrorOutput::degeneration.
+    std::vector<std::optional<std::size_t>> reference_degeneration;
+    std::string reference_node;             // where the reference current enters; empty for a stack
+    std::vector<MirrorOutput> outputs;      // in the order of their bottom devices in the netlist
+    std::vector<std::size_t> helpers;       // booster amplifier or beta-helper devices
+};
+
+// "nmos-cascode", "npn-wilson", "pmos-stack", ...
+std::string mirror_family_label(const Mirror& mirror);
+
+// Every mirror and stack of the circuit, each transistor in at most one of them. Mirrors
+// come first, in the order of their gate (base) nets; stacks follow, in device order.
+std::vector<Mirror> find_mirrors(const Circuit& circuit);
+
+}  // namespace mirrorcheck

@@ -6,6 +6,7 @@
 #include <CLI/CLI.hpp>
 
 #include "parsers/common/input_error.hpp"
+#include "src/cli/list_command.hpp"
 #include "src/cli/peek_command.hpp"
 
 int main(int argc, char** argv) {
@@ -13,6 +14,7 @@ int main(int argc, char** argv) {
     app.require_subcommand(1);
     app.set_version_flag("--version", "mirrorcheck 0.1.0");
     int status = 0;
+    mirrorcheck::cli::add_list_command(app, status);
     mirrorcheck::cli::add_peek_command(app, status);
     try {
         app.parse(argc, argv);

@@ -1,0 +1,43 @@
+#include "src/cli/list_command.hpp"
+
+#include <iostream>
+#include <memory>
+
+#include "parsers/netlist/netlist.hpp"
+#include "src/recognise/find_mirrors.hpp"
+#include "src/report/mirror_list.hpp"
+
+namespace mirrorcheck::cli {
+namespace {
+
+struct ListOptions {
+    std::string netlist;
+    std::string format = "table";
+};
+
+int run_list(const ListOptions& o) {
+    Circuit circuit = netlist::read_netlist(o.netlist);
+    std::vector<Mirror> mirrors = find_mirrors(circuit);
+    if (o.format == "json") std::cout << report::mirrors_to_json(circuit, mirrors).dump(2) << "\n";
+    else std::cout << report::write_mirror_table(circuit, mirrors);
+    return 0;
+}
+
+}  // namespace
+
+void add_list_command(CLI::App& app, int& status) {
+    auto options = std::make_shared<ListOptions>();
+    CLI::App* cmd = app.add_subcommand("list", "List the current mirrors and transistor stacks of a netlist");
+    cmd->footer(
+        "Reads the netlist only (no simulation results): each mirror's family, reference\n"
+        "devices and node, and each output's devices from the rail up, with the design\n"
+        "current ratio from the devices' sizes.\n\n"
+        "Examples:\n"
+        "  mirrorcheck list samples/tamarack/bias.cir\n"
+        "  mirrorcheck list amp.cir --format json");
+    cmd->add_option("NETLIST", options->netlist, "ngspice netlist")->required()->check(CLI::ExistingFile);
+    cmd->add_option("--format", options->format, "output format")->check(CLI::IsMember({"table", "json"}));
+    cmd->callback([options, &status] { status = run_list(*options); });
+}
+
+}  // namespace mirrorcheck::cli

@@ -1,0 +1,80 @@
+// `mirrorcheck list` as a user runs it: table and JSON on the shipped sample and on
+// recognition decks, no mirrors in a circuit without any, and exit status 2 on a bad deck.
+#include <cstdlib>
+#include <filesystem>
+#include <string>
+
+#include <doctest/doctest.h>
+#include <nlohmann/json.hpp>
+#include <sys/wait.h>
+
+#include "support/ngspice_run.hpp"
+
+namespace {
+
+struct Result {
+    int status;
+    std::string out, err;
+};
+
+Result list(const std::string& args) {
+    auto dir = mirrorcheck::test::make_temp_dir("mc-list");
+    std::string cmd = std::string("'") + MIRRORCHECK_EXE + "' list " + args + " > '" + (dir / "out").string() +
+                      "' 2> '" + (dir / "err").string() + "'";
+    int raw_status = std::system(cmd.c_str());
+    Result r{WIFEXITED(raw_status) ? WEXITSTATUS(raw_status) : -1, mirrorcheck::test::read_text(dir / "out"),
+             mirrorcheck::test::read_text(dir / "err")};
+    std::filesystem::remove_all(dir);
+    return r;
+}
+
+std::string recognise_deck(const std::string& name) {
+    return std::string(MIRRORCHECK_TEST_DATA) + "/recognise/" + name;
+}
+
+}  // namespace
+
+TEST_CASE("list on the shipped sample finds its cascode, its simple mirrors and the npn mirror") {
+    Result r = list(std::string(MIRRORCHECK_SOURCE_DIR) + "/samples/tamarack/bias.cir --format json");
+    REQUIRE(r.status == 0);
+    auto j = nlohmann::json::parse(r.out);
+    CHECK(j["schema"] == "mirrorcheck-list/1");
+    bool cascode = false, npn = false;
+    for (const auto& m : j["mirrors"]) {
+        if (m["family"] == "nmos-cascode") {
+            cascode = true;
+            CHECK(m["outputs"][0]["node"] == "tail");
+            CHECK(m["outputs"][0]["devices"] == nlohmann::json({"mn3", "mn4"}));
+            CHECK(m["outputs"][0]["design_ratio"] == 2.0);  // w=8u over w=4u, same l
+        }
+        npn = npn || (m["family"] == "npn-simple" && m["outputs"][0]["node"] == "bg");
+    }
+    CHECK(cascode);
+    CHECK(npn);
+}
+
+TEST_CASE("list as a table names the family, the reference and each output") {
+    Result r = list("'" + recognise_deck("pmos_wilson.cir") + "'");
+    REQUIRE(r.status == 0);
+    CHECK(r.out.find("pmos-wilson:") != std::string::npos);
+    CHECK(r.out.find("reference") != std::string::npos);
+    CHECK(r.out.find("output") != std::string::npos);
+}
+
+TEST_CASE("a differential pair holds no mirror") {
+    Result r = list("'" + recognise_deck("diff_pair.cir") + "' --format json");
+    REQUIRE(r.status == 0);
+    std::size_t mirrors = 0;
+    for (const auto& m : nlohmann::json::parse(r.out)["mirrors"])
+        mirrors += m["family"].get<std::string>().find("stack") == std::string::npos;
+    CHECK(mirrors == 0);
+}
+
+TEST_CASE("a deck that cannot be read: exit status 2 and the file named") {
+    auto dir = mirrorcheck::test::make_temp_dir("mc-list-bad");
+    mirrorcheck::test::write_text(dir / "bad.cir", "* bad\nm1 d g s nosuchmodel\n.end\n");
+    Result r = list("'" + (dir / "bad.cir").string() + "'");
+    CHECK(r.status == 2);
+    CHECK(r.err.find("bad.cir:2") != std::string::npos);
+    std::filesystem::remove_all(dir);
+}

@@ -1,0 +1,26 @@
+#include "src/report/si_format.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <string>
+
+#include <fmt/format.h>
+
+namespace mirrorcheck::report {
+
+std::string format_si(double value, std::string_view unit) {
+    if (!std::isfinite(value)) return fmt::format("{} {}", value, unit);
+    if (value == 0.0) return fmt::format("0 {}", unit);
+    static const char* prefixes[] = {"f", "p", "n", "µ", "m", "", "k", "M", "G", "T"};
+    int exponent = static_cast<int>(std::floor(std::log10(std::fabs(value)) / 3.0));
+    exponent = std::clamp(exponent, -5, 4);
+    double scaled = value / std::pow(10.0, 3 * exponent);
+    // Rounding to three digits can carry into the next prefix (999.7 m -> 1 unit).
+    if (std::fabs(std::stod(fmt::format("{:.3g}", scaled))) >= 1000.0 && exponent < 4) {
+        ++exponent;
+        scaled /= 1000.0;
+    }
+    return fmt::format("{:.3g} {}{}", scaled, prefixes[exponent + 5], unit);
+}
+
+}  // namespace mirrorcheck::report

@@ -1,0 +1,21 @@
+// SI formatting of values for people (DESIGN.md: every value shown carries its unit with
+// an SI prefix, never a SPICE suffix).
+#include <cmath>
+#include <limits>
+
+#include <doctest/doctest.h>
+
+#include "src/report/si_format.hpp"
+
+using mirrorcheck::report::format_si;
+
+TEST_CASE("values get three significant digits and an SI prefix") {
+    CHECK(format_si(2.448e7, "Ω") == "24.5 MΩ");
+    CHECK(format_si(-0.012, "V") == "-12 mV");
+    CHECK(format_si(4.58e-4, "S") == "458 µS");
+    CHECK(format_si(1.2, "V") == "1.2 V");
+    CHECK(format_si(0.0, "V") == "0 V");
+    CHECK(format_si(999.96e-3, "V") == "1 V");  // rounding carries into the next prefix
+    CHECK(format_si(3.3e-16, "A") == "0.33 fA");  // below the smallest prefix
+    CHECK(format_si(std::numeric_limits<double>::infinity(), "Ω") == "inf Ω");
+}

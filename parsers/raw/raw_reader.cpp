@@ -8,6 +8,7 @@
 #include <bit>
 #include <charconv>
 #include <cstring>
+#include <thread>
 
 #include "parsers/common/errors.hpp"
 #include "parsers/common/mapped_file.hpp"
@@ -285,9 +286,10 @@ public:
         fill_from(c.pos);
     }
 
-    void run() {
+    // Decodes points [first, end) from the cursor's position, where point `first` starts.
+    void run(std::uint64_t first, std::uint64_t end) {
         const std::size_t n = plot_.variables.size();
-        for (std::uint64_t p = 0; p < plot_.point_count; ++p) {
+        for (std::uint64_t p = first; p < end; ++p) {
             read_index(p);
             for (std::size_t v = 0; v < n; ++v) read_value(v, p, p + 1 == plot_.point_count && v + 1 == n);
         }
@@ -400,6 +402,82 @@ void skip_ascii(Cursor& c, const Plot& plot) {
     }
 }
 
+// Where a point's line starts (at its index) after byte `from`: a line whose first
+// non-space character is a digit; value lines start with a tab.
+std::optional<std::size_t> next_point_start(std::string_view bytes, std::size_t from) {
+    while (from < bytes.size()) {
+        const void* nl = std::memchr(bytes.data() + from, '\n', bytes.size() - from);
+        if (!nl) return std::nullopt;
+        std::size_t i = static_cast<std::size_t>(static_cast<const char*>(nl) - bytes.data()) + 1;
+        while (i < bytes.size() && bytes[i] == ' ') ++i;
+        if (i < bytes.size() && bytes[i] >= '0' && bytes[i] <= '9') return i;
+        from = i;
+    }
+    return std::nullopt;
+}
+
+struct Segment {
+    std::uint64_t first_point = 0;
+    std::size_t offset = 0;  // where that point's index is
+};
+
+// Splits a text plot's points into about equal parts at point starts near even fractions
+// of the values' estimated extent (ngspice writes about 23.5 bytes per real value).
+std::vector<Segment> split_points(const Cursor& c, const Plot& plot, unsigned parts) {
+    std::vector<Segment> segments{{0, c.pos}};
+    const double per_value = plot.complex ? 46.0 : 23.5;
+    const double values = static_cast<double>(plot.point_count) * static_cast<double>(plot.variables.size());
+    const auto extent = static_cast<std::size_t>(std::min(static_cast<double>(c.remaining()), per_value * values));
+    for (unsigned k = 1; k < parts; ++k) {
+        auto start = next_point_start(c.bytes, c.pos + extent / parts * k);
+        if (!start) break;
+        std::uint64_t index = 0;
+        auto [end, ec] = std::from_chars(c.bytes.data() + *start, c.bytes.data() + c.bytes.size(), index);
+        if (ec != std::errc{} || index <= segments.back().first_point || index >= plot.point_count) break;
+        segments.push_back({index, *start});
+    }
+    return segments;
+}
+
+// Decodes a large text plot on several cores, one run of points each. Returns false,
+// leaving the cursor where it was, when the plot is small, the split finds no point
+// starts, a part fails, or the parts do not join up exactly; the caller then decodes
+// it in one pass, which also gives any error its exact line.
+bool decode_ascii_parallel(Cursor& c, Plot& plot) {
+    const unsigned cores = std::min(4u, std::thread::hardware_concurrency());
+    if (cores < 2 || plot.point_count * plot.variables.size() < (std::uint64_t{1} << 18)) return false;
+    const std::vector<Segment> segments = split_points(c, plot, cores);
+    if (segments.size() < 2) return false;
+    std::vector<Cursor> cursors(segments.size(), c);
+    std::vector<char> failed(segments.size(), 0);
+    std::vector<std::thread> workers;
+    for (std::size_t k = 0; k < segments.size(); ++k) {
+        cursors[k].pos = segments[k].offset;
+        cursors[k].line = 0;
+        const std::uint64_t end = k + 1 < segments.size() ? segments[k + 1].first_point : plot.point_count;
+        workers.emplace_back([&, k, end] {
+            try {
+                AsciiDecoder(cursors[k], plot).run(segments[k].first_point, end);
+            } catch (...) {
+                failed[k] = 1;
+            }
+        });
+    }
+    for (auto& w : workers) w.join();
+    if (std::find(failed.begin(), failed.end(), 1) != failed.end()) return false;
+    std::size_t lines = c.line + cursors.back().line;
+    for (std::size_t k = 0; k + 1 < segments.size(); ++k) {
+        Cursor gap = cursors[k];
+        gap.line = 0;
+        gap.skip_space();
+        if (gap.pos != segments[k + 1].offset) return false;
+        lines += cursors[k].line + gap.line;
+    }
+    c.pos = cursors.back().pos;
+    c.line = lines;
+    return true;
+}
+
 void read_ascii(Cursor& c, Plot& plot, bool wanted) {
     // A value takes at least 2 bytes (a digit and a newline).
     const std::uint64_t n = plot.variables.size();
@@ -407,7 +485,7 @@ void read_ascii(Cursor& c, Plot& plot, bool wanted) {
         throw errors::raw_too_many_points(c.value_here(), plot.point_count, c.remaining() / 2 / n);
     if (wanted) {
         allocate_columns(plot);
-        AsciiDecoder(c, plot).run();
+        if (!decode_ascii_parallel(c, plot)) AsciiDecoder(c, plot).run(0, plot.point_count);
         plot.decoded = true;
     } else {
         skip_ascii(c, plot);

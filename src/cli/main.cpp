@@ -8,6 +8,7 @@
 #include "parsers/common/input_error.hpp"
 #include "src/cli/list_command.hpp"
 #include "src/cli/peek_command.hpp"
+#include "src/cli/review_command.hpp"
 
 int main(int argc, char** argv) {
     CLI::App app{"mirrorcheck: checks the current mirrors of a circuit simulated with ngspice"};
@@ -16,6 +17,7 @@ int main(int argc, char** argv) {
     int status = 0;
     mirrorcheck::cli::add_list_command(app, status);
     mirrorcheck::cli::add_peek_command(app, status);
+    mirrorcheck::cli::add_review_command(app, status);
     try {
         app.parse(argc, argv);
     } catch (const CLI::Success& e) {

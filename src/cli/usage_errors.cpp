@@ -15,4 +15,16 @@ InputError option_needs_raw(const std::string& path) {
     return {"usage.option-needs-raw", Location(path), "--vector and --plot apply to raw files only; this file is a listing or a netlist"};
 }
 
+InputError bad_quantity(const std::string& option, const std::string& text, const std::string& unit) {
+    return {"usage.bad-quantity", Location(option),
+            fmt::format("`{}` is not a value in {} (examples: {})", text, unit,
+                        unit == "%" ? "5%, 0.05" : "100m" + unit + ", 0.1")};
+}
+
+InputError no_op_plot(const std::string& path) {
+    return {"usage.no-op-plot", Location(path),
+            "no operating point here: expected a raw file with an op plot (or an AC plot with saved device "
+            "parameters) or ngspice's `show all` listing"};
+}
+
 }  // namespace mirrorcheck::cli::usage

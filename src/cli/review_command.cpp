@@ -1,0 +1,96 @@
+#include "src/cli/review_command.hpp"
+
+#include <iostream>
+#include <memory>
+
+#include "parsers/common/input_kind.hpp"
+#include "parsers/common/quantity.hpp"
+#include "parsers/listing/listing.hpp"
+#include "parsers/netlist/netlist.hpp"
+#include "parsers/raw/raw.hpp"
+#include "src/analyse/pipeline.hpp"
+#include "src/cli/usage_errors.hpp"
+#include "src/model/op_point_build.hpp"
+#include "src/report/review_report.hpp"
+
+namespace mirrorcheck::cli {
+namespace {
+
+struct ReviewOptions {
+    std::string netlist;
+    std::string op;
+    std::string format = "table";
+    std::string margin = "100mV";
+    std::string vce_sat = "0.2V";
+    std::string ratio_tolerance = "5%";
+};
+
+double quantity(const std::string& option, const std::string& text, const char* unit) {
+    auto v = parse_quantity(text, unit);
+    if (!v) throw usage::bad_quantity(option, text, unit);
+    return *v;
+}
+
+InspectOptions inspect_options(const ReviewOptions& o) {
+    InspectOptions options;
+    options.margin = quantity("--margin", o.margin, "V");
+    options.vce_sat = quantity("--vce-sat", o.vce_sat, "V");
+    options.ratio_tolerance = quantity("--ratio-tolerance", o.ratio_tolerance, "%");
+    return options;
+}
+
+// The op plot of a raw file, else its first AC plot (which repeats the device parameters).
+OpPoint op_from_raw(const Circuit& circuit, const std::string& path) {
+    raw::RawFile file = raw::read_raw(path, raw::Selection{{"op", "ac"}, false});
+    for (const char* kind : {"op", "ac"})
+        for (const auto& plot : file.plots)
+            if (plot.kind() == kind && plot.decoded && plot.point_count > 0) return build_op_point(circuit, file, plot);
+    throw usage::no_op_plot(path);
+}
+
+OpPoint read_op(const Circuit& circuit, const std::string& path) {
+    if (detect_input_kind(path) == InputKind::raw) return op_from_raw(circuit, path);
+    if (detect_input_kind(path) == InputKind::listing) return build_op_point(circuit, listing::read_listing(path));
+    throw usage::no_op_plot(path);
+}
+
+int run_review(const ReviewOptions& o) {
+    const InspectOptions options = inspect_options(o);
+    Circuit circuit = netlist::read_netlist(o.netlist);
+    OpPoint op = read_op(circuit, o.op);
+    Review review = run_review(circuit, op, options);
+    report::ReviewInputs inputs{o.netlist, op.origin};
+    if (o.format == "json") std::cout << report::review_to_json(inputs, circuit, op, review).dump(2) << "\n";
+    else std::cout << report::write_review_table(inputs, circuit, op, review);
+    for (const auto& f : review.inspection.findings)
+        if (f.severity == Severity::error) return 1;
+    return 0;
+}
+
+}  // namespace
+
+void add_review_command(CLI::App& app, int& status) {
+    auto o = std::make_shared<ReviewOptions>();
+    CLI::App* cmd = app.add_subcommand("review", "Check every current mirror against an operating point");
+    cmd->footer(
+        "For each mirror: each transistor's region and saturation margin, the output\n"
+        "resistance by inspection (reflection rule and family formulas, with and without\n"
+        "body effect), the output headroom, and the current ratio against the design.\n"
+        "The operating point comes from an ngspice raw file (op plot, or an AC plot that\n"
+        "repeats the device parameters) or from ngspice's `show all` listing.\n\n"
+        "Exit status: 0 no finding at error severity, 1 some, 2 bad usage or input.\n\n"
+        "Examples:\n"
+        "  mirrorcheck review samples/tamarack/bias.cir --op samples/tamarack/bias_op.raw\n"
+        "  mirrorcheck review amp.cir --op show.txt --margin 50mV --format json");
+    cmd->add_option("NETLIST", o->netlist, "ngspice netlist")->required()->check(CLI::ExistingFile);
+    cmd->add_option("--op", o->op, "operating point: raw file (binary or ASCII) or `show` listing")
+        ->required()
+        ->check(CLI::ExistingFile);
+    cmd->add_option("--margin", o->margin, "saturation margin Vds - Vdsat below which to warn (default 100mV)");
+    cmd->add_option("--vce-sat", o->vce_sat, "bipolar Vce at which saturation begins (default 0.2V)");
+    cmd->add_option("--ratio-tolerance", o->ratio_tolerance, "current-ratio error above which to warn (default 5%)");
+    cmd->add_option("--format", o->format, "output format")->check(CLI::IsMember({"table", "json"}));
+    cmd->callback([o, &status] { status = run_review(*o); });
+}
+
+}  // namespace mirrorcheck::cli

@@ -1,0 +1,228 @@
+// Renders a review. Values come from the passes; this file only chooses what to show and
+// how: SI prefixes and units for people, plain SI numbers in JSON.
+#include "src/report/review_report.hpp"
+
+#include <set>
+
+#include <fmt/format.h>
+
+#include "src/report/si_format.hpp"
+
+namespace mirrorcheck::report {
+namespace {
+
+nlohmann::json optional_number(const std::optional<double>& x) { return x ? nlohmann::json(*x) : nlohmann::json(); }
+
+const Device& device(const Circuit& c, std::size_t i) { return c.devices()[i]; }
+
+std::string label(const Circuit& c, std::size_t i) {
+    const Device& d = device(c, i);
+    std::string designer = d.instance_path();
+    return designer == d.name ? d.name : fmt::format("{} ({})", d.name, designer);
+}
+
+std::vector<std::string> names(const Circuit& c, const std::vector<std::size_t>& devices) {
+    std::vector<std::string> out;
+    for (std::size_t i : devices) out.push_back(device(c, i).name);
+    return out;
+}
+
+// The current of a transistor in device polarity: id for MOS, ic for bipolar.
+std::optional<double> current_of(const OpPoint& op, const Device& d) {
+    const DeviceOp* dev = op.device(d.name);
+    if (!dev) return std::nullopt;
+    return dev->get(dev->is_mos ? "id" : "ic");
+}
+
+bool concerns(const Finding& f, const Circuit& c, const Mirror& m, const MirrorOutput& o) {
+    if (f.mirror != m.id) return false;
+    if (f.subject == o.node) return true;
+    for (std::size_t i : o.devices)
+        if (f.subject == device(c, i).name) return true;
+    return false;
+}
+
+nlohmann::json finding_json(const Finding& f) {
+    return {{"severity", to_string(f.severity)}, {"code", f.code}, {"subject", f.subject}, {"message", f.message}};
+}
+
+nlohmann::json rout_json(const OutputInspection& o) {
+    const RoutEstimate& best = o.best();
+    nlohmann::json levels = nlohmann::json::array();
+    for (const auto& l : o.levels)
+        levels.push_back({{"device", l.name}, {"ro", l.ro}, {"gm", l.gm}, {"gmb", l.gmb}, {"rs", l.rs}, {"rout", l.rout}});
+    return {{"inspection", best.value},
+            {"inspection_no_body", best.value_no_body},
+            {"formula", best.formula},
+            {"method", best.method},
+            {"exact", best.exact},
+            {"note", best.note},
+            {"reflection", o.reflection.value},
+            {"levels", levels},
+            {"linearised", nullptr},
+            {"simulated", nullptr},
+            {"simulated_source", nullptr}};
+}
+
+nlohmann::json headroom_json(const Headroom& h) {
+    return {{"vout", optional_number(h.output_voltage)},
+            {h.sink ? "vout_min" : "vout_max", optional_number(h.limit)},
+            {"margin", h.margin}};
+}
+
+nlohmann::json current_json(const Circuit& c, const OpPoint& op, const Mirror& m, const MirrorOutput& o,
+                            const OutputInspection& inspected) {
+    nlohmann::json j = nlohmann::json::object();
+    if (!m.reference.empty()) j["ref"] = optional_number(current_of(op, device(c, m.reference.front())));
+    j["out"] = optional_number(current_of(op, device(c, o.devices.front())));
+    if (inspected.ratio) {
+        j["ratio"] = inspected.ratio->measured;
+        j["design_ratio"] = optional_number(inspected.ratio->design);
+        j["predicted_ratio"] = optional_number(inspected.ratio->predicted);
+        j["error"] = optional_number(inspected.ratio->error);
+        j["basis"] = inspected.ratio->basis;
+    }
+    return j;
+}
+
+nlohmann::json device_json(const Circuit& c, const OpPoint& op, const DeviceRegion& r) {
+    const Device& d = device(c, r.device);
+    nlohmann::json j = {{"name", d.name},
+                        {"instance", d.instance_path()},
+                        {"type", d.model ? d.model->type : ""},
+                        {"region", to_string(r.region)},
+                        {"saturation_voltage", r.saturation_voltage},
+                        {"margin", r.headroom},
+                        {"low_margin", r.low_margin}};
+    if (const DeviceOp* dev = op.device(d.name))
+        for (const auto& [q, v] : dev->values) j[q] = v;
+    return j;
+}
+
+struct Counts {
+    std::size_t errors = 0, warnings = 0, infos = 0;
+};
+
+Counts count(const std::vector<Finding>& findings) {
+    Counts n;
+    for (const auto& f : findings) {
+        if (f.severity == Severity::error) ++n.errors;
+        else if (f.severity == Severity::warning) ++n.warnings;
+        else ++n.infos;
+    }
+    return n;
+}
+
+}  // namespace
+
+nlohmann::json review_to_json(const ReviewInputs& inputs, const Circuit& circuit, const OpPoint& op,
+                              const Review& review) {
+    nlohmann::json mirrors = nlohmann::json::array(), devices = nlohmann::json::array();
+    std::set<std::size_t> listed;
+    auto add_device = [&](const DeviceRegion& r) {
+        if (listed.insert(r.device).second) devices.push_back(device_json(circuit, op, r));
+    };
+    for (std::size_t k = 0; k < review.mirrors.size(); ++k) {
+        const Mirror& m = review.mirrors[k];
+        const MirrorInspection& mi = review.inspection.mirrors[k];
+        for (const auto& r : mi.reference) add_device(r);
+        nlohmann::json outputs = nlohmann::json::array();
+        for (std::size_t j = 0; j < m.outputs.size(); ++j) {
+            const MirrorOutput& o = m.outputs[j];
+            const OutputInspection& oi = mi.outputs[j];
+            for (const auto& r : oi.devices) add_device(r);
+            nlohmann::json findings = nlohmann::json::array();
+            for (const auto& f : review.inspection.findings)
+                if (concerns(f, circuit, m, o)) findings.push_back(finding_json(f));
+            outputs.push_back({{"node", o.node},
+                               {"devices", names(circuit, o.devices)},
+                               {"current", current_json(circuit, op, m, o, oi)},
+                               {"rout", rout_json(oi)},
+                               {"headroom", headroom_json(oi.headroom)},
+                               {"findings", findings}});
+        }
+        mirrors.push_back({{"id", m.id},
+                           {"family", mirror_family_label(m)},
+                           {"reference", names(circuit, m.reference)},
+                           {"outputs", outputs}});
+    }
+    nlohmann::json all = nlohmann::json::array();
+    for (const auto& f : review.inspection.findings) {
+        auto j = finding_json(f);
+        j["mirror"] = f.mirror;
+        all.push_back(j);
+    }
+    Counts n = count(review.inspection.findings);
+    return {{"schema", "mirrorcheck-report/1"},
+            {"inputs", {{"netlist", inputs.netlist}, {"op", inputs.op_source}}},
+            {"mirrors", mirrors},
+            {"devices", devices},
+            {"findings", all},
+            {"summary", {{"mirrors", review.mirrors.size()}, {"errors", n.errors}, {"warnings", n.warnings}, {"infos", n.infos}}}};
+}
+
+namespace {
+
+void write_device_line(std::string& out, const Circuit& c, const OpPoint& op, const DeviceRegion& r) {
+    const Device& d = device(c, r.device);
+    const DeviceOp* dev = op.device(d.name);
+    bool mos = !dev || dev->is_mos;
+    auto q = [&](const char* name, const char* unit) {
+        auto v = dev ? dev->get(name) : std::nullopt;
+        return v ? format_si(*v, unit) : std::string("-");
+    };
+    fmt::format_to(std::back_inserter(out), "    {:<22} {:<15} {} {:>9}  {} {:>9}  margin {:>9}{}  gm {:>9}  {} {:>9}\n",
+                   label(c, r.device), to_string(r.region), mos ? "Vds" : "Vce", q(mos ? "vds" : "vce", "V"),
+                   mos ? "Vdsat" : "Vce,sat", format_si(r.saturation_voltage, "V"), format_si(r.headroom, "V"),
+                   r.low_margin ? " (low)" : "", q("gm", "S"), mos ? "gds" : "go", q(mos ? "gds" : "go", "S"));
+}
+
+void write_output(std::string& out, const Circuit& c, const OpPoint& op, const MirrorOutput& o,
+                  const OutputInspection& oi) {
+    auto it = std::back_inserter(out);
+    std::string stack;
+    for (std::size_t i : o.devices) stack += (stack.empty() ? "" : " -> ") + label(c, i);
+    fmt::format_to(it, "  output {}: {}\n", o.node, stack);
+    const RoutEstimate& best = oi.best();
+    fmt::format_to(it, "    Rout      {} by inspection ({}, {}); {} without body effect\n", format_si(best.value, "Ω"),
+                   best.method, best.exact ? "exact" : "approximate", format_si(best.value_no_body, "Ω"));
+    fmt::format_to(it, "              = {}\n", best.formula);
+    if (!best.note.empty()) fmt::format_to(it, "              {}\n", best.note);
+    const Headroom& h = oi.headroom;
+    fmt::format_to(it, "    headroom  Vout {}, {} {}, margin {}\n",
+                   h.output_voltage ? format_si(*h.output_voltage, "V") : "-", h.sink ? "min" : "max",
+                   h.limit ? format_si(*h.limit, "V") : "-", format_si(h.margin, "V"));
+    if (oi.ratio)
+        fmt::format_to(it, "    ratio     measured {:.4g}, design {}, predicted {}\n", oi.ratio->measured,
+                       oi.ratio->design ? fmt::format("{:.4g}", *oi.ratio->design) : "-",
+                       oi.ratio->predicted ? fmt::format("{:.4g}", *oi.ratio->predicted) : "-");
+    for (const auto& r : oi.devices) write_device_line(out, c, op, r);
+}
+
+}  // namespace
+
+std::string write_review_table(const ReviewInputs& inputs, const Circuit& circuit, const OpPoint& op,
+                               const Review& review) {
+    std::string out = fmt::format("mirrorcheck review of {} at {}\n", inputs.netlist, inputs.op_source);
+    auto it = std::back_inserter(out);
+    for (std::size_t k = 0; k < review.mirrors.size(); ++k) {
+        const Mirror& m = review.mirrors[k];
+        const MirrorInspection& mi = review.inspection.mirrors[k];
+        fmt::format_to(it, "\n{}\n", m.id);
+        if (!m.reference.empty()) {
+            fmt::format_to(it, "  reference at {}\n", m.reference_node);
+            for (const auto& r : mi.reference) write_device_line(out, circuit, op, r);
+        }
+        for (std::size_t j = 0; j < m.outputs.size(); ++j) write_output(out, circuit, op, m.outputs[j], mi.outputs[j]);
+    }
+    if (!review.inspection.findings.empty()) out += "\nfindings\n";
+    for (const auto& f : review.inspection.findings)
+        fmt::format_to(it, "  {:<8} {:<20} {} ({}): {}\n", to_string(f.severity), f.code, f.subject, f.mirror, f.message);
+    Counts n = count(review.inspection.findings);
+    fmt::format_to(it, "\n{} mirror{} and stack{}: {} error{}, {} warning{}, {} note{}\n", review.mirrors.size(),
+                   review.mirrors.size() == 1 ? "" : "s", review.mirrors.size() == 1 ? "" : "s", n.errors,
+                   n.errors == 1 ? "" : "s", n.warnings, n.warnings == 1 ? "" : "s", n.infos, n.infos == 1 ? "" : "s");
+    return out;
+}
+
+}  // namespace mirrorcheck::report

@@ -1,5 +1,7 @@
 #include "src/analyse/pipeline.hpp"
 
+#include <algorithm>
+
 #include "src/model/op_point_build.hpp"
 
 namespace mirrorcheck {
@@ -17,13 +19,28 @@ std::vector<std::string> transistors_of(const Circuit& circuit, const std::vecto
     return names;
 }
 
+std::vector<std::string> output_nodes(const std::vector<Mirror>& mirrors) {
+    std::vector<std::string> nodes;
+    for (const auto& m : mirrors)
+        for (const auto& o : m.outputs)
+            if (std::find(nodes.begin(), nodes.end(), o.node) == nodes.end()) nodes.push_back(o.node);
+    return nodes;
+}
+
 }  // namespace
+
+const LinearisedImpedance* Review::linearised_at(const std::string& node) const {
+    for (const auto& l : linearised)
+        if (l.node == to_lower(node)) return &l;
+    return nullptr;
+}
 
 Review run_review(const Circuit& circuit, const OpPoint& op, const InspectOptions& options) {
     Review review;
     review.mirrors = find_mirrors(circuit);
     require_transistor_quantities(op, circuit, transistors_of(circuit, review.mirrors));
     review.inspection = inspect_mirrors(circuit, op, review.mirrors, options);
+    review.linearised = compute_linearised_impedances(circuit, op, output_nodes(review.mirrors));
     return review;
 }
 

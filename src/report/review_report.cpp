@@ -46,7 +46,7 @@ nlohmann::json finding_json(const Finding& f) {
     return {{"severity", to_string(f.severity)}, {"code", f.code}, {"subject", f.subject}, {"message", f.message}};
 }
 
-nlohmann::json rout_json(const OutputInspection& o) {
+nlohmann::json rout_json(const OutputInspection& o, const LinearisedImpedance* linearised) {
     const RoutEstimate& best = o.best();
     nlohmann::json levels = nlohmann::json::array();
     for (const auto& l : o.levels)
@@ -59,7 +59,8 @@ nlohmann::json rout_json(const OutputInspection& o) {
             {"note", best.note},
             {"reflection", o.reflection.value},
             {"levels", levels},
-            {"linearised", nullptr},
+            {"linearised", linearised ? optional_number(linearised->resistance) : nlohmann::json()},
+            {"linearised_note", linearised ? linearised->note : std::string()},
             {"simulated", nullptr},
             {"simulated_source", nullptr}};
 }
@@ -137,7 +138,7 @@ nlohmann::json review_to_json(const ReviewInputs& inputs, const Circuit& circuit
             outputs.push_back({{"node", o.node},
                                {"devices", names(circuit, o.devices)},
                                {"current", current_json(circuit, op, m, o, oi)},
-                               {"rout", rout_json(oi)},
+                               {"rout", rout_json(oi, review.linearised_at(o.node))},
                                {"headroom", headroom_json(oi.headroom)},
                                {"findings", findings}});
         }
@@ -178,7 +179,7 @@ void write_device_line(std::string& out, const Circuit& c, const OpPoint& op, co
 }
 
 void write_output(std::string& out, const Circuit& c, const OpPoint& op, const MirrorOutput& o,
-                  const OutputInspection& oi) {
+                  const OutputInspection& oi, const LinearisedImpedance* linearised) {
     auto it = std::back_inserter(out);
     std::string stack;
     for (std::size_t i : o.devices) stack += (stack.empty() ? "" : " -> ") + label(c, i);
@@ -188,6 +189,11 @@ void write_output(std::string& out, const Circuit& c, const OpPoint& op, const M
                    best.method, best.exact ? "exact" : "approximate", format_si(best.value_no_body, "Ω"));
     fmt::format_to(it, "              = {}\n", best.formula);
     if (!best.note.empty()) fmt::format_to(it, "              {}\n", best.note);
+    if (linearised && linearised->resistance)
+        fmt::format_to(it, "              {} at {} in the whole linearised circuit (probe sources removed)\n",
+                       format_si(*linearised->resistance, "Ω"), o.node);
+    else if (linearised)
+        fmt::format_to(it, "              linearised circuit not solved: {}\n", linearised->note);
     const Headroom& h = oi.headroom;
     fmt::format_to(it, "    headroom  Vout {}, {} {}, margin {}\n",
                    h.output_voltage ? format_si(*h.output_voltage, "V") : "-", h.sink ? "min" : "max",
@@ -213,7 +219,8 @@ std::string write_review_table(const ReviewInputs& inputs, const Circuit& circui
             fmt::format_to(it, "  reference at {}\n", m.reference_node);
             for (const auto& r : mi.reference) write_device_line(out, circuit, op, r);
         }
-        for (std::size_t j = 0; j < m.outputs.size(); ++j) write_output(out, circuit, op, m.outputs[j], mi.outputs[j]);
+        for (std::size_t j = 0; j < m.outputs.size(); ++j)
+            write_output(out, circuit, op, m.outputs[j], mi.outputs[j], review.linearised_at(m.outputs[j].node));
     }
     if (!review.inspection.findings.empty()) out += "\nfindings\n";
     for (const auto& f : review.inspection.findings)

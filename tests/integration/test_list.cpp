@@ -6,27 +6,14 @@
 
 #include <doctest/doctest.h>
 #include <nlohmann/json.hpp>
-#include <sys/wait.h>
 
-#include "support/ngspice_run.hpp"
+#include "support/run_cli.hpp"
 
 namespace {
 
-struct Result {
-    int status;
-    std::string out, err;
-};
+using Result = mirrorcheck::test::CliResult;
 
-Result list(const std::string& args) {
-    auto dir = mirrorcheck::test::make_temp_dir("mc-list");
-    std::string cmd = std::string("'") + MIRRORCHECK_EXE + "' list " + args + " > '" + (dir / "out").string() +
-                      "' 2> '" + (dir / "err").string() + "'";
-    int raw_status = std::system(cmd.c_str());
-    Result r{WIFEXITED(raw_status) ? WEXITSTATUS(raw_status) : -1, mirrorcheck::test::read_text(dir / "out"),
-             mirrorcheck::test::read_text(dir / "err")};
-    std::filesystem::remove_all(dir);
-    return r;
-}
+Result list(const std::string& args) { return mirrorcheck::test::run_cli("list " + args); }
 
 std::string recognise_deck(const std::string& name) {
     return std::string(MIRRORCHECK_TEST_DATA) + "/recognise/" + name;

@@ -6,27 +6,14 @@
 
 #include <doctest/doctest.h>
 #include <nlohmann/json.hpp>
-#include <sys/wait.h>
 
-#include "support/ngspice_run.hpp"
+#include "support/run_cli.hpp"
 
 namespace {
 
-struct Result {
-    int status;
-    std::string out, err;
-};
+using Result = mirrorcheck::test::CliResult;
 
-Result peek(const std::string& args) {
-    auto dir = mirrorcheck::test::make_temp_dir("mc-peek");
-    std::string cmd = std::string("'") + MIRRORCHECK_EXE + "' peek " + args + " > '" + (dir / "out").string() +
-                      "' 2> '" + (dir / "err").string() + "'";
-    int raw_status = std::system(cmd.c_str());
-    Result r{WIFEXITED(raw_status) ? WEXITSTATUS(raw_status) : -1, mirrorcheck::test::read_text(dir / "out"),
-             mirrorcheck::test::read_text(dir / "err")};
-    std::filesystem::remove_all(dir);
-    return r;
-}
+Result peek(const std::string& args) { return mirrorcheck::test::run_cli("peek " + args); }
 
 std::string data(const std::string& name) { return std::string(MIRRORCHECK_TEST_DATA) + "/" + name; }
 std::string sample(const std::string& name) { return std::string(MIRRORCHECK_SOURCE_DIR) + "/samples/" + name; }

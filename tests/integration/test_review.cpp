@@ -10,23 +10,17 @@
 
 #include <doctest/doctest.h>
 #include <nlohmann/json.hpp>
-#include <sys/wait.h>
 
 #include "parsers/raw/raw.hpp"
 #include "support/ngspice_run.hpp"
+#include "support/run_cli.hpp"
 
 namespace {
 
-struct Result {
-    int status;
-    std::string out, err;
-};
+using Result = mirrorcheck::test::CliResult;
 
 Result review(const std::filesystem::path& dir, const std::string& args) {
-    std::string cmd = "cd '" + dir.string() + "' && '" + MIRRORCHECK_EXE + "' review " + args + " > out.txt 2> err.txt";
-    int raw_status = std::system(cmd.c_str());
-    return {WIFEXITED(raw_status) ? WEXITSTATUS(raw_status) : -1, mirrorcheck::test::read_text(dir / "out.txt"),
-            mirrorcheck::test::read_text(dir / "err.txt")};
+    return mirrorcheck::test::run_cli("review " + args, dir);
 }
 
 // A level-1 NMOS cascode sink, 1:1, with its output held at `vout`.

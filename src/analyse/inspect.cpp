@@ -242,7 +242,7 @@ void output_findings(const std::string& mirror, const OutputInspection& o, const
     if (o.ratio && o.ratio->error && std::abs(*o.ratio->error) > options.ratio_tolerance) {
         const std::string predicted =
             o.ratio->predicted
-                ? fmt::format("; channel-length modulation and base current predict {:.4g}", *o.ratio->predicted)
+                ? fmt::format("; the operating point predicts {:.4g} ({})", *o.ratio->predicted, o.ratio->basis)
                 : std::string();
         out.push_back({Severity::warning, "ratio-error", mirror, o.node,
                        fmt::format("The output at {} carries {:.4g} times the reference current against a design ratio "

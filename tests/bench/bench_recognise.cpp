@@ -17,55 +17,10 @@
 
 #include <fmt/core.h>
 
-#include "src/model/circuit.hpp"
 #include "src/recognise/find_mirrors.hpp"
+#include "support/mirror_blocks.hpp"
 
 namespace {
-
-using mirrorcheck::Circuit;
-
-struct Builder {
-    Circuit circuit;
-    std::shared_ptr<mirrorcheck::Model> nch = model("nch", "nmos");
-    std::shared_ptr<mirrorcheck::Model> pch = model("pch", "pmos");
-
-    static std::shared_ptr<mirrorcheck::Model> model(const std::string& name, const std::string& type) {
-        auto m = std::make_shared<mirrorcheck::Model>();
-        m->name = m->ngspice_name = name;
-        m->type = type;
-        return m;
-    }
-
-    void mos(const std::string& name, const std::string& d, const std::string& g, const std::string& s, bool p = false) {
-        mirrorcheck::Device dev;
-        dev.kind = mirrorcheck::DeviceKind::mosfet;
-        dev.name = dev.local_name = name;
-        dev.terminals = {{"d", d}, {"g", g}, {"s", s}, {"b", p ? "vdd" : "0"}};
-        dev.parameters = {{"w", 10e-6}, {"l", 1e-6}};
-        dev.model = p ? pch : nch;
-        circuit.add_device(std::move(dev));
-    }
-
-    void block(std::size_t i) {
-        std::string n = "_" + std::to_string(i);
-        mos("mc1" + n, "cg" + n, "cg" + n, "0");  // standard cascode
-        mos("mc3" + n, "cref" + n, "cref" + n, "cg" + n);
-        mos("mc2" + n, "cmid" + n, "cg" + n, "0");
-        mos("mc4" + n, "cout" + n, "cref" + n, "cmid" + n);
-        mos("mw2" + n, "wg" + n, "wg" + n, "0");  // Wilson
-        mos("mw1" + n, "wy" + n, "wg" + n, "0");
-        mos("mw3" + n, "wout" + n, "wy" + n, "wg" + n);
-        mos("ms1" + n, "sref" + n, "sref" + n, "0");  // simple, two outputs
-        mos("ms2" + n, "so1" + n, "sref" + n, "0");
-        mos("ms3" + n, "so2" + n, "sref" + n, "0");
-        mos("mr1" + n, "rref" + n, "rref" + n, "0");  // regulated cascode
-        mos("mr2" + n, "rs" + n, "rref" + n, "0");
-        mos("mr4" + n, "rout" + n, "ra" + n, "rs" + n);
-        mos("mr5" + n, "ra" + n, "rs" + n, "0");
-        mos("mn" + n, "inv" + n, "in" + n, "0");  // inverter
-        mos("mp" + n, "inv" + n, "in" + n, "vdd", true);
-    }
-};
 
 double seconds_since(std::chrono::steady_clock::time_point start) {
     return std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
@@ -81,7 +36,7 @@ int main(int argc, char** argv) {
         if (arg == "--runs" && i + 1 < argc) runs = std::max(1, std::atoi(argv[++i]));
         else blocks = std::strtoul(argv[i], nullptr, 10);
     }
-    Builder b;
+    mirrorcheck::test::BlockBuilder b;
     for (std::size_t i = 0; i < blocks; ++i) b.block(i);
     std::vector<double> times;
     std::size_t found = 0;

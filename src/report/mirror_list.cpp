@@ -5,25 +5,15 @@
 
 #include <fmt/format.h>
 
+#include "src/report/device_names.hpp"
+
 namespace mirrorcheck::report {
 namespace {
-
-std::string device_label(const Circuit& circuit, std::size_t index) {
-    const Device& d = circuit.devices()[index];
-    std::string designer = d.instance_path();
-    return designer == d.name ? d.name : fmt::format("{} ({})", d.name, designer);
-}
 
 std::string device_list(const Circuit& circuit, const std::vector<std::size_t>& devices) {
     std::string out;
     for (std::size_t i : devices) out += (out.empty() ? "" : ", ") + device_label(circuit, i);
     return out.empty() ? "-" : out;
-}
-
-std::vector<std::string> names(const Circuit& circuit, const std::vector<std::size_t>& devices) {
-    std::vector<std::string> out;
-    for (std::size_t i : devices) out.push_back(circuit.devices()[i].name);
-    return out;
 }
 
 nlohmann::json optional_names(const Circuit& circuit, const std::vector<std::optional<std::size_t>>& devices) {
@@ -62,7 +52,7 @@ nlohmann::json mirrors_to_json(const Circuit& circuit, const std::vector<Mirror>
         nlohmann::json outputs = nlohmann::json::array();
         for (const auto& o : m.outputs)
             outputs.push_back({{"node", o.node},
-                               {"devices", names(circuit, o.devices)},
+                               {"devices", device_names(circuit, o.devices)},
                                {"degeneration", optional_names(circuit, o.degeneration)},
                                {"design_ratio", o.design_ratio ? nlohmann::json(*o.design_ratio) : nlohmann::json()}});
         nlohmann::json designer = nlohmann::json::object();
@@ -72,10 +62,10 @@ nlohmann::json mirrors_to_json(const Circuit& circuit, const std::vector<Mirror>
             for (std::size_t i : o.devices) designer[circuit.devices()[i].name] = circuit.devices()[i].instance_path();
         list.push_back({{"id", m.id},
                         {"family", mirror_family_label(m)},
-                        {"reference", names(circuit, m.reference)},
+                        {"reference", device_names(circuit, m.reference)},
                         {"reference_node", m.reference_node},
                         {"outputs", outputs},
-                        {"helpers", names(circuit, m.helpers)},
+                        {"helpers", device_names(circuit, m.helpers)},
                         {"designer", designer}});
     }
     return {{"schema", "mirrorcheck-list/1"}, {"title", circuit.title}, {"mirrors", list}};

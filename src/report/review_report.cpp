@@ -6,6 +6,7 @@
 
 #include <fmt/format.h>
 
+#include "src/report/device_names.hpp"
 #include "src/report/si_format.hpp"
 
 namespace mirrorcheck::report {
@@ -14,18 +15,6 @@ namespace {
 nlohmann::json optional_number(const std::optional<double>& x) { return x ? nlohmann::json(*x) : nlohmann::json(); }
 
 const Device& device(const Circuit& c, std::size_t i) { return c.devices()[i]; }
-
-std::string label(const Circuit& c, std::size_t i) {
-    const Device& d = device(c, i);
-    std::string designer = d.instance_path();
-    return designer == d.name ? d.name : fmt::format("{} ({})", d.name, designer);
-}
-
-std::vector<std::string> names(const Circuit& c, const std::vector<std::size_t>& devices) {
-    std::vector<std::string> out;
-    for (std::size_t i : devices) out.push_back(device(c, i).name);
-    return out;
-}
 
 // The current of a transistor in device polarity: id for MOS, ic for bipolar.
 std::optional<double> current_of(const OpPoint& op, const Device& d) {
@@ -136,7 +125,7 @@ nlohmann::json review_to_json(const ReviewInputs& inputs, const Circuit& circuit
             for (const auto& f : review.inspection.findings)
                 if (concerns(f, circuit, m, o)) findings.push_back(finding_json(f));
             outputs.push_back({{"node", o.node},
-                               {"devices", names(circuit, o.devices)},
+                               {"devices", device_names(circuit, o.devices)},
                                {"current", current_json(circuit, op, m, o, oi)},
                                {"rout", rout_json(oi, review.linearised_at(o.node))},
                                {"headroom", headroom_json(oi.headroom)},
@@ -144,7 +133,7 @@ nlohmann::json review_to_json(const ReviewInputs& inputs, const Circuit& circuit
         }
         mirrors.push_back({{"id", m.id},
                            {"family", mirror_family_label(m)},
-                           {"reference", names(circuit, m.reference)},
+                           {"reference", device_names(circuit, m.reference)},
                            {"outputs", outputs}});
     }
     nlohmann::json all = nlohmann::json::array();
@@ -173,7 +162,7 @@ void write_device_line(std::string& out, const Circuit& c, const OpPoint& op, co
         return v ? format_si(*v, unit) : std::string("-");
     };
     fmt::format_to(std::back_inserter(out), "    {:<22} {:<15} {} {:>9}  {} {:>9}  margin {:>9}{}  gm {:>9}  {} {:>9}\n",
-                   label(c, r.device), to_string(r.region), mos ? "Vds" : "Vce", q(mos ? "vds" : "vce", "V"),
+                   device_label(c, r.device), to_string(r.region), mos ? "Vds" : "Vce", q(mos ? "vds" : "vce", "V"),
                    mos ? "Vdsat" : "Vce,sat", format_si(r.saturation_voltage, "V"), format_si(r.headroom, "V"),
                    r.low_margin ? " (low)" : "", q("gm", "S"), mos ? "gds" : "go", q(mos ? "gds" : "go", "S"));
 }
@@ -182,7 +171,7 @@ void write_output(std::string& out, const Circuit& c, const OpPoint& op, const M
                   const OutputInspection& oi, const LinearisedImpedance* linearised) {
     auto it = std::back_inserter(out);
     std::string stack;
-    for (std::size_t i : o.devices) stack += (stack.empty() ? "" : " -> ") + label(c, i);
+    for (std::size_t i : o.devices) stack += (stack.empty() ? "" : " -> ") + device_label(c, i);
     fmt::format_to(it, "  output {}: {}\n", o.node, stack);
     const RoutEstimate& best = oi.best();
     fmt::format_to(it, "    Rout      {} by inspection ({}, {}); {} without body effect\n", format_si(best.value, "Ω"),

@@ -220,19 +220,19 @@ void region_findings(const std::string& mirror, const std::vector<DeviceRegion>&
                      std::vector<Finding>& out) {
     for (const DeviceRegion& d : devices) {
         if (d.region == Region::cutoff) {
-            out.push_back({Severity::error, "cutoff", mirror, d.name,
+            out.push_back(make_finding(Severity::error, "cutoff", mirror, d.name,
                            fmt::format("{} is cut off, so it carries no mirrored current and every formula above it is "
                                        "wrong.",
-                                       d.name)});
+                                       d.name)));
         } else if (!d.current_source) {
-            out.push_back({Severity::error, "out-of-saturation", mirror, d.name,
+            out.push_back(make_finding(Severity::error, "out-of-saturation", mirror, d.name,
                            fmt::format("{} is in {} ({:.3g} V below its saturation voltage of {:.3g} V), so its ro "
                                        "collapses and every formula above it is wrong.",
-                                       d.name, to_string(d.region), -d.headroom, d.saturation_voltage)});
+                                       d.name, to_string(d.region), -d.headroom, d.saturation_voltage)));
         } else if (d.low_margin) {
-            out.push_back({Severity::warning, "low-margin", mirror, d.name,
+            out.push_back(make_finding(Severity::warning, "low-margin", mirror, d.name,
                            fmt::format("{} is saturated by only {:.0f} mV, less than the {:.0f} mV margin asked for.",
-                                       d.name, d.headroom * 1e3, options.margin * 1e3)});
+                                       d.name, d.headroom * 1e3, options.margin * 1e3)));
         }
     }
 }
@@ -244,25 +244,25 @@ void output_findings(const std::string& mirror, const OutputInspection& o, const
             o.ratio->predicted
                 ? fmt::format("; the operating point predicts {:.4g} ({})", *o.ratio->predicted, o.ratio->basis)
                 : std::string();
-        out.push_back({Severity::warning, "ratio-error", mirror, o.node,
+        out.push_back(make_finding(Severity::warning, "ratio-error", mirror, o.node,
                        fmt::format("The output at {} carries {:.4g} times the reference current against a design ratio "
                                    "of {:.4g}{}.",
-                                   o.node, o.ratio->measured, *o.ratio->design, predicted)});
+                                   o.node, o.ratio->measured, *o.ratio->design, predicted)));
     }
     for (std::size_t k = 1; k < o.levels.size(); ++k) {
         const double mu = o.levels[k].gm * o.levels[k].ro;
         if (mu < low_intrinsic_gain)
-            out.push_back({Severity::info, "low-intrinsic-gain", mirror, o.levels[k].name,
+            out.push_back(make_finding(Severity::info, "low-intrinsic-gain", mirror, o.levels[k].name,
                            fmt::format("{} has an intrinsic gain gm·ro of only {:.3g}, so the hand formula's "
                                        "approximations are weak at {}.",
-                                       o.levels[k].name, mu, o.node)});
+                                       o.levels[k].name, mu, o.node)));
     }
     const RoutEstimate& best = o.best();
     if (best.value > 0 && std::abs(best.value - best.value_no_body) / best.value > body_effect_share)
-        out.push_back({Severity::info, "body-effect", mirror, o.node,
+        out.push_back(make_finding(Severity::info, "body-effect", mirror, o.node,
                        fmt::format("Body effect changes Rout at {} by {:.0f} %: the sources of its devices sit above "
                                    "their bulk.",
-                                   o.node, 100.0 * std::abs(best.value - best.value_no_body) / best.value)});
+                                   o.node, 100.0 * std::abs(best.value - best.value_no_body) / best.value)));
 }
 
 // Every transistor of the mirrors, so that one error lists all that the op lacks.
@@ -311,17 +311,6 @@ std::string_view to_string(Region region) {
     return "";
 }
 
-std::string_view to_string(Severity severity) {
-    switch (severity) {
-        case Severity::error:
-            return "error";
-        case Severity::warning:
-            return "warning";
-        case Severity::info:
-            return "info";
-    }
-    return "";
-}
 
 DeviceRegion classify_region(const DeviceOp& op, const InspectOptions& options) {
     DeviceRegion r = op.is_mos ? classify_mos(op, options) : classify_bjt(op, options);

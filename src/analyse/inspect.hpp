@@ -10,6 +10,7 @@
 #include <string_view>
 #include <vector>
 
+#include "src/analyse/finding.hpp"
 #include "src/model/circuit.hpp"
 #include "src/model/op_point.hpp"
 #include "src/recognise/find_mirrors.hpp"
@@ -99,19 +100,6 @@ struct MirrorInspection {
     std::string mirror;                   // Mirror::id
     std::vector<DeviceRegion> reference;  // bottom first
     std::vector<OutputInspection> outputs;
-};
-
-enum class Severity { error, warning, info };
-
-// "error", "warning", "info".
-std::string_view to_string(Severity severity);
-
-struct Finding {
-    Severity severity = Severity::info;
-    std::string code;     // out-of-saturation, cutoff, low-margin, ratio-error, low-intrinsic-gain, body-effect
-    std::string mirror;   // Mirror::id
-    std::string subject;  // the device or output node concerned
-    std::string message;  // one sentence: what and why
 };
 
 struct InspectionResult {

@@ -41,6 +41,7 @@ Review run_review(const Circuit& circuit, const OpPoint& op, const InspectOption
     require_transistor_quantities(op, circuit, transistors_of(circuit, review.mirrors));
     review.inspection = inspect_mirrors(circuit, op, review.mirrors, options);
     review.linearised = compute_linearised_impedances(circuit, op, output_nodes(review.mirrors));
+    review.findings = review.inspection.findings;
     return review;
 }
 

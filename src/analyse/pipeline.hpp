@@ -18,6 +18,8 @@ struct Review {
     // voltage sources on those nodes (the probes) removed.
     std::vector<LinearisedImpedance> linearised;
     const LinearisedImpedance* linearised_at(const std::string& node) const;
+    // Every finding of every pass, in the order a designer should read them.
+    std::vector<Finding> findings;
 };
 
 // Recognises the mirrors, checks that the operating point has what they need, inspects

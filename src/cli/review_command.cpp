@@ -62,8 +62,8 @@ int run_review(const ReviewOptions& o) {
     report::ReviewInputs inputs{o.netlist, op.origin};
     if (o.format == "json") std::cout << report::review_to_json(inputs, circuit, op, review).dump(2) << "\n";
     else std::cout << report::write_review_table(inputs, circuit, op, review);
-    for (const auto& f : review.inspection.findings)
-        if (f.severity == Severity::error) return 1;
+    for (const auto& f : review.findings)
+        if (fails_review(f)) return 1;
     return 0;
 }
 

@@ -122,7 +122,7 @@ nlohmann::json review_to_json(const ReviewInputs& inputs, const Circuit& circuit
             const OutputInspection& oi = mi.outputs[j];
             for (const auto& r : oi.devices) add_device(r);
             nlohmann::json findings = nlohmann::json::array();
-            for (const auto& f : review.inspection.findings)
+            for (const auto& f : review.findings)
                 if (concerns(f, circuit, m, o)) findings.push_back(finding_json(f));
             outputs.push_back({{"node", o.node},
                                {"devices", device_names(circuit, o.devices)},
@@ -137,12 +137,12 @@ nlohmann::json review_to_json(const ReviewInputs& inputs, const Circuit& circuit
                            {"outputs", outputs}});
     }
     nlohmann::json all = nlohmann::json::array();
-    for (const auto& f : review.inspection.findings) {
+    for (const auto& f : review.findings) {
         auto j = finding_json(f);
         j["mirror"] = f.mirror;
         all.push_back(j);
     }
-    Counts n = count(review.inspection.findings);
+    Counts n = count(review.findings);
     return {{"schema", "mirrorcheck-report/1"},
             {"inputs", {{"netlist", inputs.netlist}, {"op", inputs.op_source}}},
             {"mirrors", mirrors},
@@ -211,10 +211,10 @@ std::string write_review_table(const ReviewInputs& inputs, const Circuit& circui
         for (std::size_t j = 0; j < m.outputs.size(); ++j)
             write_output(out, circuit, op, m.outputs[j], mi.outputs[j], review.linearised_at(m.outputs[j].node));
     }
-    if (!review.inspection.findings.empty()) out += "\nfindings\n";
-    for (const auto& f : review.inspection.findings)
+    if (!review.findings.empty()) out += "\nfindings\n";
+    for (const auto& f : review.findings)
         fmt::format_to(it, "  {:<8} {:<20} {} ({}): {}\n", to_string(f.severity), f.code, f.subject, f.mirror, f.message);
-    Counts n = count(review.inspection.findings);
+    Counts n = count(review.findings);
     fmt::format_to(it, "\n{} mirror{} and stack{}: {} error{}, {} warning{}, {} note{}\n", review.mirrors.size(),
                    review.mirrors.size() == 1 ? "" : "s", review.mirrors.size() == 1 ? "" : "s", n.errors,
                    n.errors == 1 ? "" : "s", n.warnings, n.warnings == 1 ? "" : "s", n.infos, n.infos == 1 ? "" : "s");

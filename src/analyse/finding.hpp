@@ -4,6 +4,7 @@
 
 #include <string>
 #include <string_view>
+#include <vector>
 
 namespace mirrorcheck {
 
@@ -21,6 +22,17 @@ struct Finding {
     bool waived = false;  // accepted by a waiver file; then it never fails a review
     std::string waiver;   // the waiver's reason, as written
 };
+
+// One entry of the catalogue of finding codes: what the code means and what a designer
+// usually does about it. Every code a pass emits is here; waiver files are checked
+// against it and the README lists it.
+struct FindingCode {
+    std::string_view code;
+    std::string_view meaning;
+    std::string_view action;
+};
+const std::vector<FindingCode>& finding_codes();
+const FindingCode* find_finding_code(std::string_view code);
 
 Finding make_finding(Severity severity, std::string code, std::string mirror, std::string subject,
                      std::string message);

@@ -7,7 +7,7 @@
 #include <fmt/format.h>
 
 #include "src/report/device_names.hpp"
-#include "src/report/si_format.hpp"
+#include "parsers/common/si_format.hpp"
 
 namespace mirrorcheck::report {
 namespace {

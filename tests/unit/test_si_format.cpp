@@ -5,9 +5,9 @@
 
 #include <doctest/doctest.h>
 
-#include "src/report/si_format.hpp"
+#include "parsers/common/si_format.hpp"
 
-using mirrorcheck::report::format_si;
+using mirrorcheck::format_si;
 
 TEST_CASE("values get three significant digits and an SI prefix") {
     CHECK(format_si(2.448e7, "Ω") == "24.5 MΩ");

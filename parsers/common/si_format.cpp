@@ -1,4 +1,4 @@
-#include "src/report/si_format.hpp"
+#include "parsers/common/si_format.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -6,7 +6,7 @@
 
 #include <fmt/format.h>
 
-namespace mirrorcheck::report {
+namespace mirrorcheck {
 
 std::string format_si(double value, std::string_view unit) {
     if (!std::isfinite(value)) return fmt::format("{} {}", value, unit);
@@ -23,4 +23,4 @@ std::string format_si(double value, std::string_view unit) {
     return fmt::format("{:.3g} {}{}", scaled, prefixes[exponent + 5], unit);
 }
 
-}  // namespace mirrorcheck::report
+}  // namespace mirrorcheck

@@ -30,6 +30,8 @@ const std::vector<FindingCode>& finding_codes() {
          "read the linearised value rather than the formula"},
         {"body-effect", "body effect changes the output resistance noticeably",
          "none needed; the value with body effect is the one to use"},
+        {"gmb-missing", "the op data has no gmb for some MOS devices, so body effect is neglected everywhere",
+         "save @m[gmbs] for every transistor, or write the `show all` listing"},
         {"inspection-vs-linearised", "the hand formula and the exact small-signal solve disagree",
          "read the cause in the message: a loaded output, a reference that is not AC ground, or the formula's "
          "approximation"},

@@ -2,6 +2,8 @@
 
 #include <algorithm>
 
+#include <fmt/format.h>
+
 #include "src/model/op_point_build.hpp"
 
 namespace mirrorcheck {
@@ -27,6 +29,34 @@ std::vector<std::string> output_nodes(const std::vector<Mirror>& mirrors) {
     return nodes;
 }
 
+// MOS devices whose op data has gm and gds but no gmb (decks that save only some
+// parameters; process kits whose wrappers hide the bulk) get gmb = 0, so that the review
+// can go on with body effect neglected. Returns their names.
+std::vector<std::string> assume_missing_gmb_zero(OpPoint& op) {
+    std::vector<std::string> names;
+    for (auto& [name, dev] : op.devices)
+        if (dev.is_mos && !dev.get("gmb") && dev.get("gm") && dev.get("gds")) {
+            dev.values["gmb"] = 0.0;
+            names.push_back(name);
+        }
+    return names;
+}
+
+std::string listed(const std::vector<std::string>& names) {
+    std::string s;
+    for (std::size_t k = 0; k < names.size() && k < 6; ++k) s += (k ? ", " : "") + names[k];
+    if (names.size() > 6) s += fmt::format(" and {} more", names.size() - 6);
+    return s;
+}
+
+// Device regions and margins, then currents and gains, then resistances.
+int reading_group(const Finding& f) {
+    if (f.code == "cutoff" || f.code == "out-of-saturation" || f.code == "low-margin" || f.code == "gmb-missing")
+        return 0;
+    if (f.code == "ratio-error" || f.code == "low-intrinsic-gain" || f.code == "body-effect") return 1;
+    return 2;
+}
+
 }  // namespace
 
 const LinearisedImpedance* Review::linearised_at(const std::string& node) const {
@@ -35,14 +65,56 @@ const LinearisedImpedance* Review::linearised_at(const std::string& node) const 
     return nullptr;
 }
 
-Review run_review(const Circuit& circuit, const OpPoint& op, const InspectOptions& options) {
+const SimulatedImpedance* Review::simulated_at(const std::string& node) const {
+    for (const auto& s : simulated)
+        if (s.node == to_lower(node)) return &s;
+    return nullptr;
+}
+
+const OutputReconciliation* Review::reconciliation_at(const std::string& mirror, const std::string& node) const {
+    for (const auto& r : reconciliation.outputs)
+        if (r.mirror == mirror && r.node == node) return &r;
+    return nullptr;
+}
+
+Review run_review(const Circuit& circuit, const OpPoint& given_op, const std::vector<SimulationPlot>& plots,
+                  const ReviewSettings& settings) {
     Review review;
+    OpPoint op = given_op;
+    const std::vector<std::string> no_gmb = assume_missing_gmb_zero(op);
     review.mirrors = find_mirrors(circuit);
     require_transistor_quantities(op, circuit, transistors_of(circuit, review.mirrors));
-    review.inspection = inspect_mirrors(circuit, op, review.mirrors, options);
-    review.linearised = compute_linearised_impedances(circuit, op, output_nodes(review.mirrors));
+    review.inspection = inspect_mirrors(circuit, op, review.mirrors, settings.inspect);
+    const std::vector<std::string> nodes = output_nodes(review.mirrors);
+    review.linearised = compute_linearised_impedances(circuit, op, nodes);
+    review.simulated = find_simulated_impedances(circuit, plots, nodes, settings.simulated);
+
+    ReconcileOptions reconcile{settings.tolerance, !plots.empty(), no_gmb};
+    review.reconciliation =
+        reconcile_resistances(circuit, review.mirrors, review.inspection, review.linearised, review.simulated, reconcile);
+
     review.findings = review.inspection.findings;
+    if (!no_gmb.empty()) {
+        review.assumptions.push_back(fmt::format("gmb taken as 0 for {} (not in the op data)", listed(no_gmb)));
+        review.findings.push_back(make_finding(
+            Severity::warning, "gmb-missing", "", listed(no_gmb),
+            fmt::format("The op data has no gmb for {}, so every resistance here neglects body effect; save "
+                        "@{}[gmbs] (or write the `show all` listing) to include it.",
+                        listed(no_gmb), no_gmb.front())));
+    }
+    review.findings.insert(review.findings.end(), review.reconciliation.findings.begin(),
+                           review.reconciliation.findings.end());
+    std::stable_sort(review.findings.begin(), review.findings.end(), [](const Finding& a, const Finding& b) {
+        if (reading_group(a) != reading_group(b)) return reading_group(a) < reading_group(b);
+        return a.severity < b.severity;
+    });
     return review;
+}
+
+Review run_review(const Circuit& circuit, const OpPoint& op, const InspectOptions& options) {
+    ReviewSettings settings;
+    settings.inspect = options;
+    return run_review(circuit, op, {}, settings);
 }
 
 }  // namespace mirrorcheck

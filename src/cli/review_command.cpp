@@ -11,6 +11,7 @@
 #include "src/analyse/pipeline.hpp"
 #include "src/cli/usage_errors.hpp"
 #include "src/model/op_point_build.hpp"
+#include "src/model/simulation_plots_build.hpp"
 #include "src/report/review_report.hpp"
 
 namespace mirrorcheck::cli {
@@ -23,6 +24,10 @@ struct ReviewOptions {
     std::string margin = "100mV";
     std::string vce_sat = "0.2V";
     std::string ratio_tolerance = "5%";
+    std::vector<std::string> ac, tf;  // raw files with AC or .tf plots
+    std::vector<std::string> probes;  // NODE=SOURCE
+    std::string at;                   // frequency for AC values
+    std::string tolerance = "10%";
 };
 
 double quantity(const std::string& option, const std::string& text, const char* unit) {
@@ -37,6 +42,38 @@ InspectOptions inspect_options(const ReviewOptions& o) {
     options.vce_sat = quantity("--vce-sat", o.vce_sat, "V");
     options.ratio_tolerance = quantity("--ratio-tolerance", o.ratio_tolerance, "%");
     return options;
+}
+
+ReviewSettings review_settings(const ReviewOptions& o) {
+    ReviewSettings settings;
+    settings.inspect = inspect_options(o);
+    settings.tolerance = quantity("--tolerance", o.tolerance, "%");
+    if (!o.at.empty()) settings.simulated.at = quantity("--at", o.at, "Hz");
+    for (const auto& p : o.probes) {
+        auto eq = p.find('=');
+        if (eq == std::string::npos || eq == 0 || eq + 1 == p.size()) throw usage::bad_probe(p);
+        settings.simulated.probes.push_back({p.substr(0, eq), p.substr(eq + 1)});
+    }
+    return settings;
+}
+
+// The AC and .tf plots of the op file (when it is a raw file) and of every --ac and --tf file.
+std::vector<SimulationPlot> read_simulation_plots(const ReviewOptions& o, std::vector<std::string>& used) {
+    std::vector<SimulationPlot> plots;
+    auto add = [&](const std::string& path, bool must_have) {
+        if (detect_input_kind(path) != InputKind::raw) {
+            if (must_have) throw usage::no_small_signal_plot(path);
+            return;
+        }
+        auto more = simulation_plots_from_raw(raw::read_raw(path, raw::Selection{{"ac", "tf"}, false}));
+        if (more.empty() && must_have) throw usage::no_small_signal_plot(path);
+        if (!more.empty()) used.push_back(path);
+        for (auto& p : more) plots.push_back(std::move(p));
+    };
+    add(o.op, false);
+    for (const auto& path : o.ac) add(path, true);
+    for (const auto& path : o.tf) add(path, true);
+    return plots;
 }
 
 // The op plot of a raw file, else its first AC plot (which repeats the device parameters).
@@ -55,11 +92,13 @@ OpPoint read_op(const Circuit& circuit, const std::string& path) {
 }
 
 int run_review(const ReviewOptions& o) {
-    const InspectOptions options = inspect_options(o);
+    const ReviewSettings settings = review_settings(o);
     Circuit circuit = netlist::read_netlist(o.netlist);
     OpPoint op = read_op(circuit, o.op);
-    Review review = run_review(circuit, op, options);
-    report::ReviewInputs inputs{o.netlist, op.origin};
+    std::vector<std::string> simulation_files;
+    std::vector<SimulationPlot> plots = read_simulation_plots(o, simulation_files);
+    Review review = run_review(circuit, op, plots, settings);
+    report::ReviewInputs inputs{o.netlist, op.origin, simulation_files};
     if (o.format == "json") std::cout << report::review_to_json(inputs, circuit, op, review).dump(2) << "\n";
     else std::cout << report::write_review_table(inputs, circuit, op, review);
     for (const auto& f : review.findings)
@@ -89,6 +128,13 @@ void add_review_command(CLI::App& app, int& status) {
     cmd->add_option("--margin", o->margin, "saturation margin Vds - Vdsat below which to warn (default 100mV)");
     cmd->add_option("--vce-sat", o->vce_sat, "bipolar Vce at which saturation begins (default 0.2V)");
     cmd->add_option("--ratio-tolerance", o->ratio_tolerance, "current-ratio error above which to warn (default 5%)");
+    cmd->add_option("--ac", o->ac, "raw file with AC plots probing the outputs (repeatable; the --op raw file is read too)")
+        ->check(CLI::ExistingFile);
+    cmd->add_option("--tf", o->tf, "raw file with .tf plots naming the probes (repeatable)")->check(CLI::ExistingFile);
+    cmd->add_option("--probe", o->probes, "NODE=SOURCE: the source that probes output NODE (repeatable)");
+    cmd->add_option("--at", o->at, "frequency at which to read AC plots (default: each plot's lowest)");
+    cmd->add_option("--tolerance", o->tolerance,
+                    "relative difference above which two resistance values disagree (default 10%)");
     cmd->add_option("--format", o->format, "output format")->check(CLI::IsMember({"table", "json"}));
     cmd->callback([o, &status] { status = run_review(*o); });
 }

@@ -27,4 +27,14 @@ InputError no_op_plot(const std::string& path) {
             "parameters) or ngspice's `show all` listing"};
 }
 
+InputError bad_probe(const std::string& text) {
+    return {"usage.probe", Location("--probe"),
+            fmt::format("`{}` is not NODE=SOURCE (example: --probe out=vout)", text)};
+}
+
+InputError no_small_signal_plot(const std::string& path) {
+    return {"usage.no-small-signal-plot", Location(path),
+            "no AC or transfer-function plot here: expected an ngspice raw file written after `ac` or `tf`"};
+}
+
 }  // namespace mirrorcheck::cli::usage

@@ -32,14 +32,38 @@ bool concerns(const Finding& f, const Circuit& c, const Mirror& m, const MirrorO
 }
 
 nlohmann::json finding_json(const Finding& f) {
-    return {{"severity", to_string(f.severity)}, {"code", f.code}, {"subject", f.subject}, {"message", f.message}};
+    nlohmann::json j = {
+        {"severity", to_string(f.severity)}, {"code", f.code}, {"subject", f.subject}, {"message", f.message}};
+    if (f.waived) {
+        j["waived"] = true;
+        j["waiver"] = f.waiver;
+    }
+    return j;
 }
 
-nlohmann::json rout_json(const OutputInspection& o, const LinearisedImpedance* linearised) {
+nlohmann::json comparisons_json(const OutputReconciliation* r) {
+    nlohmann::json j = nlohmann::json::array();
+    if (r)
+        for (const auto& c : r->comparisons)
+            j.push_back({{"pair", c.pair}, {"first", c.first}, {"second", c.second}, {"difference", c.difference},
+                         {"agrees", c.agrees}});
+    return j;
+}
+
+nlohmann::json rout_json(const OutputInspection& o, const LinearisedImpedance* linearised,
+                         const SimulatedImpedance* simulated, const OutputReconciliation* reconciliation) {
     const RoutEstimate& best = o.best();
     nlohmann::json levels = nlohmann::json::array();
     for (const auto& l : o.levels)
         levels.push_back({{"device", l.name}, {"ro", l.ro}, {"gm", l.gm}, {"gmb", l.gmb}, {"rs", l.rs}, {"rout", l.rout}});
+    const SimulatedValue* sim = simulated ? simulated->best() : nullptr;
+    nlohmann::json all_simulated = nlohmann::json::array();
+    if (simulated)
+        for (const auto& v : simulated->values)
+            all_simulated.push_back({{"magnitude", v.magnitude},
+                                     {"phase_degrees", v.phase_degrees},
+                                     {"frequency", optional_number(v.frequency)},
+                                     {"source", v.source}});
     return {{"inspection", best.value},
             {"inspection_no_body", best.value_no_body},
             {"formula", best.formula},
@@ -50,8 +74,14 @@ nlohmann::json rout_json(const OutputInspection& o, const LinearisedImpedance* l
             {"levels", levels},
             {"linearised", linearised ? optional_number(linearised->resistance) : nlohmann::json()},
             {"linearised_note", linearised ? linearised->note : std::string()},
-            {"simulated", nullptr},
-            {"simulated_source", nullptr}};
+            {"simulated", sim ? nlohmann::json(sim->magnitude) : nlohmann::json()},
+            {"simulated_source", sim ? nlohmann::json(sim->source) : nlohmann::json()},
+            {"simulated_note", simulated ? simulated->note : std::string()},
+            {"probe", simulated && !simulated->probe.empty() ? nlohmann::json(simulated->probe) : nlohmann::json()},
+            {"probe_mode",
+             simulated && !simulated->probe_mode.empty() ? nlohmann::json(simulated->probe_mode) : nlohmann::json()},
+            {"simulated_values", all_simulated},
+            {"comparisons", comparisons_json(reconciliation)}};
 }
 
 nlohmann::json headroom_json(const Headroom& h) {
@@ -90,13 +120,14 @@ nlohmann::json device_json(const Circuit& c, const OpPoint& op, const DeviceRegi
 }
 
 struct Counts {
-    std::size_t errors = 0, warnings = 0, infos = 0;
+    std::size_t errors = 0, warnings = 0, infos = 0, waived = 0;
 };
 
 Counts count(const std::vector<Finding>& findings) {
     Counts n;
     for (const auto& f : findings) {
-        if (f.severity == Severity::error) ++n.errors;
+        if (f.waived) ++n.waived;
+        else if (f.severity == Severity::error) ++n.errors;
         else if (f.severity == Severity::warning) ++n.warnings;
         else ++n.infos;
     }
@@ -127,7 +158,8 @@ nlohmann::json review_to_json(const ReviewInputs& inputs, const Circuit& circuit
             outputs.push_back({{"node", o.node},
                                {"devices", device_names(circuit, o.devices)},
                                {"current", current_json(circuit, op, m, o, oi)},
-                               {"rout", rout_json(oi, review.linearised_at(o.node))},
+                               {"rout", rout_json(oi, review.linearised_at(o.node), review.simulated_at(o.node),
+                                                  review.reconciliation_at(m.id, o.node))},
                                {"headroom", headroom_json(oi.headroom)},
                                {"findings", findings}});
         }
@@ -144,11 +176,12 @@ nlohmann::json review_to_json(const ReviewInputs& inputs, const Circuit& circuit
     }
     Counts n = count(review.findings);
     return {{"schema", "mirrorcheck-report/1"},
-            {"inputs", {{"netlist", inputs.netlist}, {"op", inputs.op_source}}},
+            {"inputs", {{"netlist", inputs.netlist}, {"op", inputs.op_source}, {"simulation", inputs.simulation_files}}},
+            {"assumptions", review.assumptions},
             {"mirrors", mirrors},
             {"devices", devices},
             {"findings", all},
-            {"summary", {{"mirrors", review.mirrors.size()}, {"errors", n.errors}, {"warnings", n.warnings}, {"infos", n.infos}}}};
+            {"summary", {{"mirrors", review.mirrors.size()}, {"errors", n.errors}, {"warnings", n.warnings}, {"infos", n.infos}, {"waived", n.waived}}}};
 }
 
 namespace {
@@ -167,22 +200,53 @@ void write_device_line(std::string& out, const Circuit& c, const OpPoint& op, co
                    r.low_margin ? " (low)" : "", q("gm", "S"), mos ? "gds" : "go", q(mos ? "gds" : "go", "S"));
 }
 
-void write_output(std::string& out, const Circuit& c, const OpPoint& op, const MirrorOutput& o,
-                  const OutputInspection& oi, const LinearisedImpedance* linearised) {
+std::string comparison_label(const std::string& pair) {
+    if (pair == "inspection-vs-linearised") return "inspection/linearised";
+    if (pair == "linearised-vs-simulated") return "linearised/simulated";
+    return "inspection/simulated";
+}
+
+void write_resistances(std::string& out, const MirrorOutput& o, const OutputInspection& oi,
+                       const LinearisedImpedance* linearised, const SimulatedImpedance* simulated,
+                       const OutputReconciliation* reconciliation) {
+    auto it = std::back_inserter(out);
+    const RoutEstimate& best = oi.best();
+    fmt::format_to(it, "    Rout  inspection  {:>9}  {}, {}; {} without body effect\n", format_si(best.value, "Ω"),
+                   best.method, best.exact ? "exact" : "approximate", format_si(best.value_no_body, "Ω"));
+    fmt::format_to(it, "                          = {}\n", best.formula);
+    if (!best.note.empty()) fmt::format_to(it, "                          {}\n", best.note);
+    if (linearised && linearised->resistance)
+        fmt::format_to(it, "          linearised  {:>9}  the whole circuit at {}{}\n", format_si(*linearised->resistance, "Ω"),
+                       o.node, linearised->note.empty() ? "" : "; " + linearised->note);
+    else
+        fmt::format_to(it, "          linearised  {:>9}  {}\n", "-", linearised ? linearised->note : "not computed");
+    if (const SimulatedValue* sim = simulated ? simulated->best() : nullptr) {
+        std::string phase = sim->frequency ? fmt::format(", phase {:.1f}°", sim->phase_degrees) : std::string();
+        fmt::format_to(it, "          simulated   {:>9}  {} by {}: {}{}\n", format_si(sim->magnitude, "Ω"),
+                       simulated->probe_mode, simulated->probe, sim->source, phase);
+        for (std::size_t k = 1; k < simulated->values.size(); ++k)
+            fmt::format_to(it, "                      {:>9}  also {}\n", format_si(simulated->values[k].magnitude, "Ω"),
+                           simulated->values[k].source);
+    } else {
+        fmt::format_to(it, "          simulated   {:>9}  {}\n", "-", simulated ? simulated->note : "not simulated");
+    }
+    if (reconciliation && !reconciliation->comparisons.empty()) {
+        std::string line;
+        for (const auto& c : reconciliation->comparisons)
+            line += fmt::format("{}{} {:+.1f} %{}", line.empty() ? "" : ", ", comparison_label(c.pair),
+                                100.0 * c.difference, c.agrees ? "" : " (disagree)");
+        fmt::format_to(it, "          agreement   {}\n", line);
+    }
+}
+
+void write_output(std::string& out, const Circuit& c, const OpPoint& op, const Review& review, const Mirror& m,
+                  const MirrorOutput& o, const OutputInspection& oi) {
     auto it = std::back_inserter(out);
     std::string stack;
     for (std::size_t i : o.devices) stack += (stack.empty() ? "" : " -> ") + device_label(c, i);
     fmt::format_to(it, "  output {}: {}\n", o.node, stack);
-    const RoutEstimate& best = oi.best();
-    fmt::format_to(it, "    Rout      {} by inspection ({}, {}); {} without body effect\n", format_si(best.value, "Ω"),
-                   best.method, best.exact ? "exact" : "approximate", format_si(best.value_no_body, "Ω"));
-    fmt::format_to(it, "              = {}\n", best.formula);
-    if (!best.note.empty()) fmt::format_to(it, "              {}\n", best.note);
-    if (linearised && linearised->resistance)
-        fmt::format_to(it, "              {} at {} in the whole linearised circuit (probe sources removed)\n",
-                       format_si(*linearised->resistance, "Ω"), o.node);
-    else if (linearised)
-        fmt::format_to(it, "              linearised circuit not solved: {}\n", linearised->note);
+    write_resistances(out, o, oi, review.linearised_at(o.node), review.simulated_at(o.node),
+                      review.reconciliation_at(m.id, o.node));
     const Headroom& h = oi.headroom;
     fmt::format_to(it, "    headroom  Vout {}, {} {}, margin {}\n",
                    h.output_voltage ? format_si(*h.output_voltage, "V") : "-", h.sink ? "min" : "max",
@@ -209,15 +273,21 @@ std::string write_review_table(const ReviewInputs& inputs, const Circuit& circui
             for (const auto& r : mi.reference) write_device_line(out, circuit, op, r);
         }
         for (std::size_t j = 0; j < m.outputs.size(); ++j)
-            write_output(out, circuit, op, m.outputs[j], mi.outputs[j], review.linearised_at(m.outputs[j].node));
+            write_output(out, circuit, op, review, m, m.outputs[j], mi.outputs[j]);
     }
     if (!review.findings.empty()) out += "\nfindings\n";
-    for (const auto& f : review.findings)
-        fmt::format_to(it, "  {:<8} {:<20} {} ({}): {}\n", to_string(f.severity), f.code, f.subject, f.mirror, f.message);
+    for (const auto& f : review.findings) {
+        std::string where = f.mirror.empty() ? f.subject : fmt::format("{} ({})", f.subject, f.mirror);
+        fmt::format_to(it, "  {:<8} {:<24} {}: {}\n", f.waived ? "waived" : to_string(f.severity), f.code, where,
+                       f.message);
+        if (f.waived) fmt::format_to(it, "           {:<24} waived {}: {}\n", "", to_string(f.severity), f.waiver);
+    }
+    for (const auto& a : review.assumptions) fmt::format_to(it, "\nassumed: {}\n", a);
     Counts n = count(review.findings);
-    fmt::format_to(it, "\n{} mirror{} and stack{}: {} error{}, {} warning{}, {} note{}\n", review.mirrors.size(),
+    fmt::format_to(it, "\n{} mirror{} and stack{}: {} error{}, {} warning{}, {} note{}{}\n", review.mirrors.size(),
                    review.mirrors.size() == 1 ? "" : "s", review.mirrors.size() == 1 ? "" : "s", n.errors,
-                   n.errors == 1 ? "" : "s", n.warnings, n.warnings == 1 ? "" : "s", n.infos, n.infos == 1 ? "" : "s");
+                   n.errors == 1 ? "" : "s", n.warnings, n.warnings == 1 ? "" : "s", n.infos, n.infos == 1 ? "" : "s",
+                   n.waived ? fmt::format(", {} waived", n.waived) : std::string());
     return out;
 }
 

@@ -2,6 +2,7 @@
 #pragma once
 
 #include <string>
+#include <vector>
 
 #include <nlohmann/json.hpp>
 
@@ -12,6 +13,7 @@ namespace mirrorcheck::report {
 struct ReviewInputs {
     std::string netlist;
     std::string op_source;  // file and plot (or listing) the operating point came from
+    std::vector<std::string> simulation_files;  // raw files whose AC or .tf plots were read
 };
 
 // {"schema": "mirrorcheck-report/1", "inputs", "mirrors", "devices", "findings", "summary"}.

@@ -1,0 +1,53 @@
+// The three values of each output's resistance side by side (by inspection, linearised,
+// simulated; HANDCALC.md section 5), and a finding with its likely cause for every pair
+// that disagrees by more than the tolerance.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "src/analyse/finding.hpp"
+#include "src/analyse/inspect.hpp"
+#include "src/analyse/linearise.hpp"
+#include "src/analyse/simulated_impedance.hpp"
+#include "src/model/circuit.hpp"
+#include "src/recognise/find_mirrors.hpp"
+
+namespace mirrorcheck {
+
+struct ReconcileOptions {
+    double tolerance = 0.10;                 // relative
+    bool simulation_given = false;           // AC or .tf results were read at all
+    std::vector<std::string> gmb_assumed_zero;  // MOS devices whose op data had no gmb
+};
+
+// One pair of values. `difference` is first/second - 1: the second is the reference
+// (linearised for inspection, simulated for the others).
+struct ResistanceComparison {
+    std::string pair;  // "inspection-vs-linearised", "linearised-vs-simulated", "inspection-vs-simulated"
+    double first = 0, second = 0;
+    double difference = 0;
+    bool agrees = true;
+};
+
+struct OutputReconciliation {
+    std::string mirror;  // Mirror::id
+    std::string node;
+    std::vector<ResistanceComparison> comparisons;  // only the pairs whose two values exist
+};
+
+struct Reconciliation {
+    std::vector<OutputReconciliation> outputs;  // mirror by mirror, output by output
+    std::vector<Finding> findings;
+};
+
+// Compares the values of every output of `mirrors` (inspection.mirrors in the same order);
+// linearised and simulated are looked up by output node.
+Reconciliation reconcile_resistances(const Circuit& circuit, const std::vector<Mirror>& mirrors,
+                                     const InspectionResult& inspection,
+                                     const std::vector<LinearisedImpedance>& linearised,
+                                     const std::vector<SimulatedImpedance>& simulated,
+                                     const ReconcileOptions& options);
+
+}  // namespace mirrorcheck

@@ -196,8 +196,21 @@ std::optional<CurrentRatio> compute_ratio(const Circuit& circuit, const OpPoint&
             *r.predicted /= 1.0 + (total_design_ratio(mirror) + 1.0) / beta;
         }
     }
+    if (r.predicted && !std::isfinite(*r.predicted)) r.predicted.reset();  // e.g. gds = 0 with id = 0
     if (r.design && mirror.family != Family::widlar) r.error = r.measured / *r.design - 1.0;
     return r;
+}
+
+// A level with gds (go) = 0, as ngspice reports for a model without channel-length
+// modulation (lambda = 0, no vaf), has an infinite ro; the formulas then give inf or, where
+// inf meets 0, NaN. Both mean "unbounded": report +inf, with a note.
+void unbounded_when_ro_infinite(RoutEstimate& e, const std::vector<RoutLevel>& levels) {
+    bool infinite_ro = false;
+    for (const auto& l : levels) infinite_ro = infinite_ro || !std::isfinite(l.ro);
+    if (!infinite_ro) return;
+    if (!std::isfinite(e.value)) e.value = HUGE_VAL;
+    if (!std::isfinite(e.value_no_body)) e.value_no_body = HUGE_VAL;
+    e.note = "unbounded: a device reports gds = 0 (a model without channel-length modulation), so its ro is infinite";
 }
 
 OutputInspection inspect_output(const Circuit& circuit, const OpPoint& op, const Mirror& mirror,
@@ -208,6 +221,8 @@ OutputInspection inspect_output(const Circuit& circuit, const OpPoint& op, const
     o.levels = std::move(rout.levels);
     o.reflection = std::move(rout.reflection);
     o.family = std::move(rout.family);
+    unbounded_when_ro_infinite(o.reflection, o.levels);
+    if (o.family) unbounded_when_ro_infinite(*o.family, o.levels);
     o.devices = classify_all(circuit, op, output.devices, options);
     o.headroom = compute_headroom(circuit, op, mirror, output, o.devices.back());
     o.ratio = compute_ratio(circuit, op, mirror, output, o.levels.front());

@@ -6,7 +6,9 @@
 //      (several such sources make the choice ambiguous: none is taken, and the note asks
 //      for --probe);
 //   3. the one voltage source on the node without `ac` (it can still serve a `.tf`).
-// A voltage source "holds" the node: the simulator then measures the impedance of
+// A source "on the node" may also reach it through one capacitor, its other net touching
+// nothing else (an AC-coupled probe, as `mirrorcheck prepare` writes: the capacitor is open
+// at DC, so the probe cannot move the bias). A voltage source "holds" the node: the simulator then measures the impedance of
 // everything else on the node, the way the linearised solve removes the probe. A current
 // source "injects" into the node as it is.
 //
@@ -18,8 +20,9 @@
 //   injected by I: Z = (v(N) - v(T)) / I,  I = -A when N is the + node, +A when it is the - node,
 //                  A the source's AC value: the plot's `@I[acmag]` (and `@I[acphase]`) when
 //                  saved, else the netlist's `ac` value.
-// A plot counts for a probe only when the probe is driven in it: v(N) - v(T) is not zero
-// (held), or A is not zero (injected). This lets one raw file hold one AC run per output,
+// A plot counts for a probe only when the probe is driven in it: its AC value saved in the
+// plot (`@S[acmag]`) is not zero; without that vector, its netlist `ac` value is not zero;
+// for a voltage source without either, v(N) - v(T) is not zero. This lets one raw file hold one AC run per output,
 // each driving one probe (`alter`), and still pair every output with its own run. The
 // point read is the lowest frequency, or the one nearest `--at`.
 //
@@ -59,11 +62,37 @@ std::string other_net(const Device& d, const std::string& side) {
 
 struct Probe {
     const Device* device = nullptr;
-    std::string side;  // the source's terminal on the node
-    std::string note;  // why there is none
+    std::string side;                 // the source's terminal on the node (or on the coupling net)
+    const Device* coupling = nullptr; // the capacitor between the source and the node, if any
+    std::string note;                 // why there is none
 };
 
+// The sources on `node`: directly, or through one capacitor whose other net holds only
+// that capacitor and the source.
+std::vector<Probe> sources_on(const Circuit& circuit, const std::string& node) {
+    std::vector<Probe> found;
+    const Net* net = circuit.find_net(node);
+    if (!net) return found;
+    for (const TerminalRef& t : net->terminals) {
+        const Device& d = circuit.devices()[t.device];
+        if (is_source(d)) {
+            found.push_back({&d, side_on(d, node), nullptr, {}});
+            continue;
+        }
+        if (d.kind != DeviceKind::capacitor) continue;
+        const std::string far = other_net(d, d.terminals[t.terminal].role);
+        const Net* coupled = circuit.find_net(far);
+        if (!coupled || coupled->terminals.size() != 2 || far == "0") continue;
+        for (const TerminalRef& u : coupled->terminals) {
+            const Device& s = circuit.devices()[u.device];
+            if (&s != &d && is_source(s)) found.push_back({&s, side_on(s, far), &d, {}});
+        }
+    }
+    return found;
+}
+
 Probe choose_probe(const Circuit& circuit, const std::string& node, const SimulatedOptions& options) {
+    const std::vector<Probe> on_node = sources_on(circuit, node);
     for (const auto& choice : options.probes) {
         if (to_lower(choice.node) != node) continue;
         const Device* d = circuit.find_device(choice.source);
@@ -71,38 +100,33 @@ Probe choose_probe(const Circuit& circuit, const std::string& node, const Simula
             throw InputError("usage.probe", Location("--probe"),
                              fmt::format("`{}={}`: the netlist has no voltage or current source named {}",
                                          choice.node, choice.source, choice.source));
-        std::string side = side_on(*d, node);
-        if (side.empty())
-            throw InputError("usage.probe", Location("--probe"),
-                             fmt::format("`{}={}`: {} is not connected to node {}", choice.node, choice.source,
-                                         d->name, node));
-        return {d, side, {}};
+        for (const Probe& p : on_node)
+            if (p.device == d) return p;
+        throw InputError("usage.probe", Location("--probe"),
+                         fmt::format("`{}={}`: {} is not connected to node {} (directly or through one capacitor)",
+                                     choice.node, choice.source, d->name, node));
     }
-    std::vector<const Device*> with_ac, voltage_sources;
-    const Net* net = circuit.find_net(node);
-    if (net)
-        for (const TerminalRef& t : net->terminals) {
-            const Device& d = circuit.devices()[t.device];
-            if (!is_source(d)) continue;
-            if (d.parameters.count("acmag")) with_ac.push_back(&d);
-            else if (d.kind == DeviceKind::vsource) voltage_sources.push_back(&d);
-        }
-    auto names = [](const std::vector<const Device*>& ds) {
+    std::vector<Probe> with_ac, voltage_sources;
+    for (const Probe& p : on_node) {
+        if (p.device->parameters.count("acmag")) with_ac.push_back(p);
+        else if (p.device->kind == DeviceKind::vsource && !p.coupling) voltage_sources.push_back(p);
+    }
+    auto names = [](const std::vector<Probe>& ps) {
         std::string s;
-        for (const Device* d : ds) s += (s.empty() ? "" : ", ") + d->name;
+        for (const Probe& p : ps) s += (s.empty() ? "" : ", ") + p.device->name;
         return s;
     };
-    if (with_ac.size() == 1) return {with_ac[0], side_on(*with_ac[0], node), {}};
+    if (with_ac.size() == 1) return with_ac[0];
     if (with_ac.size() > 1)
-        return {nullptr, {},
+        return {nullptr, {}, nullptr,
                 fmt::format("not simulated: several sources with `ac` on {} ({}); name the probe with --probe {}=SOURCE",
                             node, names(with_ac), node)};
-    if (voltage_sources.size() == 1) return {voltage_sources[0], side_on(*voltage_sources[0], node), {}};
+    if (voltage_sources.size() == 1) return voltage_sources[0];
     if (voltage_sources.size() > 1)
-        return {nullptr, {},
+        return {nullptr, {}, nullptr,
                 fmt::format("not simulated: several voltage sources on {} ({}); name the probe with --probe {}=SOURCE",
                             node, names(voltage_sources), node)};
-    return {nullptr, {},
+    return {nullptr, {}, nullptr,
             fmt::format("not simulated: no probe source on {} (a voltage source with `ac 1` holding it, or an "
                         "AC current source into it)",
                         node)};
@@ -149,8 +173,18 @@ std::optional<std::complex<double>> injected_current(const SimulationPlot& plot,
 
 std::string fmt_frequency(double f) { return fmt::format("{:g} Hz", f); }
 
-void read_ac(const SimulationPlot& plot, const Device& probe, const std::string& side, const std::string& node,
-             const SimulatedOptions& options, SimulatedImpedance& out, std::vector<std::string>& skipped) {
+// Whether the probe drives this plot (see the file comment).
+bool driven(const SimulationPlot& plot, const Probe& p, std::size_t k, std::complex<double> across) {
+    if (const Values* mag = plot.find("@" + p.device->name + "[acmag]"); mag && k < mag->size())
+        return (*mag)[k] != 0.0;
+    if (auto netlist = p.device->parameter("acmag")) return *netlist != 0.0;
+    return p.device->kind == DeviceKind::vsource && !p.coupling && std::abs(across) > 0;
+}
+
+void read_ac(const SimulationPlot& plot, const Probe& p, const std::string& node, const SimulatedOptions& options,
+             SimulatedImpedance& out, std::vector<std::string>& skipped) {
+    const Device& probe = *p.device;
+    const std::string& side = p.side;
     const std::size_t k = chosen_point(plot, options);
     const std::string other = other_net(probe, side);
     auto vn = voltage(plot, node, k), vt = voltage(plot, other, k);
@@ -161,8 +195,7 @@ void read_ac(const SimulationPlot& plot, const Device& probe, const std::string&
         return;
     }
     const std::complex<double> across = *vn - *vt;
-    const bool driven = probe.kind == DeviceKind::vsource ? std::abs(across) > 0 : std::abs(*current) > 0;
-    if (!driven) return;  // another output's run
+    if (!driven(plot, p, k, across)) return;  // another output's run
     if (std::abs(*current) == 0) {
         skipped.push_back(fmt::format("{}: no current through {}", plot.origin, probe.name));
         return;
@@ -190,9 +223,11 @@ bool voltage_source_on(const Circuit& circuit, const std::string& node) {
     return false;
 }
 
-void read_tf(const Circuit& circuit, const SimulationPlot& plot, const Device& probe, const std::string& node,
+void read_tf(const Circuit& circuit, const SimulationPlot& plot, const Probe& p, const std::string& node,
              SimulatedImpedance& out) {
-    std::vector<std::string> names = {probe.name + "#input_impedance", probe.name + "#output_impedance"};
+    const Device& probe = *p.device;
+    std::vector<std::string> names;
+    if (!p.coupling) names = {probe.name + "#input_impedance", probe.name + "#output_impedance"};  // open at DC
     if (probe.kind == DeviceKind::isource || !voltage_source_on(circuit, node))
         names.push_back("output_impedance_at_v(" + node + ")");
     for (const auto& name : names) {
@@ -224,12 +259,13 @@ std::vector<SimulatedImpedance> find_simulated_impedances(const Circuit& circuit
         }
         r.probe = probe.device->name;
         r.probe_mode = probe.device->kind == DeviceKind::vsource ? "held" : "injected";
+        if (probe.coupling) r.note = fmt::format("AC-coupled through {}", probe.coupling->name);
         std::vector<std::string> skipped;
         std::size_t ac_found = 0;
         for (const auto& plot : plots) {
             if (plot.kind != "ac") continue;
             std::size_t before = r.values.size();
-            read_ac(plot, *probe.device, probe.side, r.node, options, r, skipped);
+            read_ac(plot, probe, r.node, options, r, skipped);
             ac_found += r.values.size() - before;
         }
         if (ac_found > 1) {
@@ -237,7 +273,7 @@ std::vector<SimulatedImpedance> find_simulated_impedances(const Circuit& circuit
             r.note = fmt::format("{} drives {} in more than one AC plot; the first is used", r.probe, r.node);
         }
         for (const auto& plot : plots)
-            if (plot.kind == "tf") read_tf(circuit, plot, *probe.device, r.node, r);
+            if (plot.kind == "tf") read_tf(circuit, plot, probe, r.node, r);
         if (r.values.empty()) {
             if (plots.empty()) r.note = "not simulated: no AC or .tf results were given";
             else if (!skipped.empty()) r.note = "not simulated: " + skipped.front();

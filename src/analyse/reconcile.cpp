@@ -105,6 +105,10 @@ struct Context {
 // Why inspection and the linearised solve differ, as the end of a sentence.
 std::pair<Severity, std::string> formula_cause(const Context& c, const ResistanceComparison& cmp) {
     const RoutEstimate& best = c.oi.best();
+    if (!std::isfinite(cmp.first))
+        return {Severity::warning,
+                "the formula is unbounded because a device reports gds = 0 (no channel-length modulation in its "
+                "model), while the solve is bounded by the rest of the circuit or by gmin; use a model with it"};
     if (const DeviceRegion* d = collapsed_device(c.mi, c.oi))
         return {Severity::warning,
                 fmt::format("{} is in {}, so the small-signal values the formula combines no longer describe a "

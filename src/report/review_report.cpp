@@ -2,6 +2,7 @@
 // how: SI prefixes and units for people, plain SI numbers in JSON.
 #include "src/report/review_report.hpp"
 
+#include <cmath>
 #include <set>
 
 #include <fmt/format.h>
@@ -233,8 +234,10 @@ void write_resistances(std::string& out, const MirrorOutput& o, const OutputInsp
     if (reconciliation && !reconciliation->comparisons.empty()) {
         std::string line;
         for (const auto& c : reconciliation->comparisons)
-            line += fmt::format("{}{} {:+.1f} %{}", line.empty() ? "" : ", ", comparison_label(c.pair),
-                                100.0 * c.difference, c.agrees ? "" : " (disagree)");
+            line += fmt::format("{}{} {}{}", line.empty() ? "" : ", ", comparison_label(c.pair),
+                                std::abs(c.difference) < 1 ? fmt::format("{:+.1f} %", 100.0 * c.difference)
+                                                           : fmt::format("×{:.3g}", c.difference + 1.0),
+                                c.agrees ? "" : " (disagree)");
         fmt::format_to(it, "          agreement   {}\n", line);
     }
 }

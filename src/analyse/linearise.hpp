@@ -1,8 +1,11 @@
-// The exact DC small-signal impedance at chosen nodes of a whole circuit, from the flat
-// Circuit and its operating point: the "linearised" value that analysis by inspection is
-// checked against. See linearise.cpp for the method, its assumptions and what it leaves out.
+// The exact small-signal impedance at chosen nodes of a whole circuit (or, when the whole
+// circuit cannot be linearised, of a mirror's own devices), from the flat Circuit and its
+// operating point: the "linearised" value that analysis by inspection is checked against,
+// at DC and against frequency. See linearise.cpp for the method, its assumptions and what
+// it leaves out.
 #pragma once
 
+#include <cstddef>
 #include <optional>
 #include <string>
 #include <vector>
@@ -12,17 +15,48 @@
 
 namespace mirrorcheck {
 
-struct LinearisedImpedance {
-    std::string node;                 // as asked, lower case
-    std::optional<double> resistance; // ohms; absent when the network could not be built or solved
-    std::string note;                 // why it is absent, or what was assumed ("probe vout removed; ...")
+// The impedance at one frequency.
+struct ImpedancePoint {
+    double frequency = 0;      // Hz
+    double magnitude = 0;      // ohms
+    double phase_degrees = 0;  // arg Z
 };
 
-// The small-signal resistance seen at each node to ground, with the circuit linearised at
-// `op`. Each node is expected to be held in the deck by a probe voltage source (e.g.
-// `vout out 0 dc 1.2`): every independent voltage source touching any asked node is left
+struct LinearisedImpedance {
+    std::string node;                 // as asked, lower case
+    std::optional<double> resistance; // ohms, at DC; absent when the network could not be built or solved
+    std::string note;                 // why it is absent, or what was assumed ("probe vout removed; ...")
+    std::string scope;                // "whole circuit" or "mirror devices only"; empty when absent
+    std::vector<ImpedancePoint> spectrum;    // at the asked frequencies, in order; empty when not computed
+    std::optional<double> corner_frequency;  // Hz, where |Z| = |Z(0)|/sqrt(2); absent when no
+                                             // capacitances or no corner below 1 THz
+    std::string spectrum_note;        // why the spectrum is absent, or which capacitances were left out
+};
+
+// One node to solve, with the devices of the mirror output that drives it (the output
+// stack's transistors and their source or emitter resistors), used when the whole circuit
+// cannot be linearised.
+struct LineariseTarget {
+    std::string node;
+    std::vector<std::size_t> own_devices;  // indices into Circuit::devices()
+};
+
+// The small-signal impedance seen at each target node to ground, with the circuit
+// linearised at `op`: the resistance at DC, and, when the op data holds the device
+// capacitances, |Z| and its phase at each of `frequencies` and the 3 dB corner frequency.
+// Each node is expected to be held in the deck by a probe voltage source (e.g.
+// `vout out 0 dc 1.2`): every independent voltage source touching any target node is left
 // out of the network (it is the probe), so that the node is held by nothing but the
-// circuit. One result per asked node, in order.
+// circuit. When the whole circuit cannot be linearised (a transistor lacks its
+// conductances, a behavioural source, internal nodes, ...), each target with own devices
+// is solved on those devices alone, every net outside them at AC ground (scope "mirror
+// devices only"). One result per target, in order.
+std::vector<LinearisedImpedance> compute_linearised_impedances(const Circuit& circuit, const OpPoint& op,
+                                                               const std::vector<LineariseTarget>& targets,
+                                                               const std::vector<double>& frequencies);
+
+// The same for bare nodes at DC (with the corner frequency when capacitances are known),
+// without a fallback.
 std::vector<LinearisedImpedance> compute_linearised_impedances(const Circuit& circuit, const OpPoint& op,
                                                                const std::vector<std::string>& nodes);
 

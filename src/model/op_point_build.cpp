@@ -12,6 +12,16 @@
 // - Gummel-Poon PNP reports `vbe`, `vbc` normalised but `ic`, `ib` with their true,
 //   negative signs.
 // - Currents and conductances include the instance multiplier m (and bipolar area).
+// - Capacitances (optional; what ngspice 39 reports and its AC analysis uses):
+//   MOS levels 1, 2, 3, 6, 9 print the Meyer set `cgs`, `cgd`, `cgb` (overlaps included)
+//   and the junctions `cbd`, `cbs`. BSIM3 and BSIM4 print the charge derivatives `cgg`,
+//   `cgd`, `cgs`, `cdg`, `cdd`, `cds`, `cbg`, `cbd`, `cbs` (dQx/dVy; the same names mean
+//   something else than in the Meyer set) and the junctions `capbd`, `capbs`; BSIM4 adds
+//   the source row (`csg` ...) and bulk column (`cgb` ...), which charge conservation
+//   gives anyway, so they are not read. Neither BSIM reports its gate overlap
+//   capacitances (cgso, cgdo, cgbo times the width, plus fringing), which its AC analysis
+//   adds. Gummel-Poon prints `cpi`, `cmu`, `cbx`, `csub` (`ccs` is not a name ngspice 39
+//   knows). Capacitances are positive for p-type devices as for n-type.
 #include "src/model/op_point_build.hpp"
 
 #include <fmt/format.h>
@@ -49,6 +59,24 @@ const std::vector<Rule>& bjt_rules() {
     return rules;
 }
 
+// The optional capacitances: OpPoint quantity <- ngspice name (see the file comment).
+const std::vector<Rule>& capacitance_rules(const Model& model) {
+    static const std::vector<Rule> none;
+    static const std::vector<Rule> meyer = {
+        {"cgs", {"cgs"}}, {"cgd", {"cgd"}}, {"cgb", {"cgb"}}, {"cbd", {"cbd"}}, {"cbs", {"cbs"}}};
+    static const std::vector<Rule> charge = {
+        {"cggb", {"cgg"}}, {"cgdb", {"cgd"}}, {"cgsb", {"cgs"}}, {"cdgb", {"cdg"}}, {"cddb", {"cdd"}}, {"cdsb", {"cds"}},
+        {"cbgb", {"cbg"}}, {"cbdb", {"cbd"}}, {"cbsb", {"cbs"}}, {"cbd", {"capbd"}}, {"cbs", {"capbs"}}};
+    static const std::vector<Rule> bipolar = {{"cpi", {"cpi"}}, {"cmu", {"cmu"}}, {"cbx", {"cbx"}}, {"csub", {"csub"}}};
+    switch (capacitance_set(model)) {
+        case CapacitanceSet::meyer: return meyer;
+        case CapacitanceSet::charge: return charge;
+        case CapacitanceSet::bipolar: return bipolar;
+        case CapacitanceSet::none: break;
+    }
+    return none;
+}
+
 bool is_transistor(const Device& d) {
     return (d.kind == DeviceKind::mosfet || d.kind == DeviceKind::bjt) && d.model != nullptr;
 }
@@ -65,13 +93,14 @@ DeviceOp blank_device_op(const Device& d, const std::string& origin) {
 // Applies the rules with a lookup `find(name) -> optional<double>` for one device.
 template <typename Find>
 void read_quantities(DeviceOp& op, const Device& d, Find find) {
-    const auto& rules = op.is_mos ? mos_rules(*d.model) : bjt_rules();
-    for (const auto& rule : rules)
-        for (auto name : rule.names)
-            if (auto v = find(name)) {
-                op.values[std::string(rule.quantity)] = (rule.negate_p_type && op.polarity == Polarity::p_type) ? -*v : *v;
-                break;
-            }
+    for (const auto* rules : {op.is_mos ? &mos_rules(*d.model) : &bjt_rules(), &capacitance_rules(*d.model)})
+        for (const auto& rule : *rules)
+            for (auto name : rule.names)
+                if (auto v = find(name)) {
+                    op.values[std::string(rule.quantity)] =
+                        (rule.negate_p_type && op.polarity == Polarity::p_type) ? -*v : *v;
+                    break;
+                }
     if (!op.is_mos && op.values.count("vbe") && op.values.count("vbc"))
         op.values["vce"] = op.values["vbe"] - op.values["vbc"];
 }
@@ -144,20 +173,33 @@ OpPoint build_op_point(const Circuit& circuit, const listing::Listing& listing) 
     return op;
 }
 
+SaveNames ngspice_save_names(const Device& transistor) {
+    SaveNames names;
+    if (!is_transistor(transistor)) return names;
+    const bool mos = transistor.kind == DeviceKind::mosfet;
+    for (const auto& rule : mos ? mos_rules(*transistor.model) : bjt_rules())
+        names.required.emplace_back(rule.names.front());
+    for (const auto& rule : capacitance_rules(*transistor.model)) names.optional.emplace_back(rule.names.front());
+    return names;
+}
+
 void require_transistor_quantities(const OpPoint& op, const Circuit& circuit, const std::vector<std::string>& devices) {
     std::vector<MissingQuantities> missing;
     for (const auto& name : devices) {
         const Device* d = circuit.find_device(name);
         const DeviceOp* dev = op.device(name);
         if (!d || !dev) continue;
-        MissingQuantities m{d->name, {}, {}};
+        MissingQuantities m{d->name, {}, {}, {}};
         const auto& rules = dev->is_mos ? mos_rules(*d->model) : bjt_rules();
         for (const auto& rule : rules)
             if (!dev->get(rule.quantity)) {
                 m.quantities.emplace_back(rule.quantity);
                 m.ngspice_names.emplace_back(rule.names.front());
             }
-        if (!m.quantities.empty()) missing.push_back(std::move(m));
+        if (m.quantities.empty()) continue;
+        for (const auto& rule : capacitance_rules(*d->model))
+            if (!dev->get(rule.quantity)) m.optional_names.emplace_back(rule.names.front());
+        missing.push_back(std::move(m));
     }
     if (!missing.empty()) throw errors::op_missing_parameters(op.origin, missing);
 }

@@ -21,9 +21,19 @@ OpPoint build_op_point(const Circuit& circuit, const raw::RawFile& file, const r
 // From a `show` listing: device parameters only (a listing has no node voltages).
 OpPoint build_op_point(const Circuit& circuit, const listing::Listing& listing);
 
+// The ngspice parameter names to save for one transistor (`save @m1[gm] ...`), by its
+// model: those a review needs, and the optional capacitances the impedance against
+// frequency uses. Empty for other devices.
+struct SaveNames {
+    std::vector<std::string> required;
+    std::vector<std::string> optional;
+};
+SaveNames ngspice_save_names(const Device& transistor);
+
 // Throws InputError "op.missing-parameters" when any of these transistors lacks a
 // quantity a review needs; the message lists each device with what it lacks and the
-// lines to add to the deck.
+// lines to add to the deck (with the optional capacitances it also lacks, marked as such).
+// Capacitances are never demanded.
 void require_transistor_quantities(const OpPoint& op, const Circuit& circuit, const std::vector<std::string>& devices);
 
 }  // namespace mirrorcheck

@@ -12,6 +12,7 @@ struct MissingQuantities {
     std::string device;
     std::vector<std::string> quantities;     // in the convention of op_point.hpp
     std::vector<std::string> ngspice_names;  // what to save for each
+    std::vector<std::string> optional_names; // capacitances it also lacks (ngspice names), not required
 };
 
 namespace errors {

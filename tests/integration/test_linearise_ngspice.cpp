@@ -4,6 +4,12 @@
 // resistance at the probed node must match `vout#input_impedance` within 0.1 %.
 // `.option gmin=1e-15` keeps ngspice's junction gmin (which the linearised network leaves
 // out) below the tolerance at the high impedances of cascodes.
+//
+// The fallback to a mirror's own devices (when the whole circuit cannot be linearised) is
+// checked the same way: its value must match, within 0.1 %, ngspice's `.tf` of a second
+// deck holding only those devices, with their gates (bases) held by voltage sources at
+// the DC voltages ngspice found in the first deck.
+#include <sstream>
 #include <string>
 #include <vector>
 
@@ -131,4 +137,103 @@ TEST_CASE("a device written with drain and source exchanged (reverse mode), leve
                         "m2 mid g2 out 0 nd w=4u l=1u\nvout out 0 dc 2.4\n",
                 {"m1", "m2"}, {});
     }
+}
+
+namespace {
+
+std::string number(double v) {
+    std::ostringstream s;
+    s.precision(17);
+    s << v;
+    return s.str();
+}
+
+std::size_t device_index(const Circuit& c, const std::string& name) {
+    for (std::size_t i = 0; i < c.devices().size(); ++i)
+        if (c.devices()[i].name == name) return i;
+    FAIL("no device " << name);
+    return 0;
+}
+
+// Runs `circuit` (probe `vout` on `out`) saving only `saves`, and returns the fallback
+// result for the output stack `own` together with the op plot's node voltages.
+struct Fallback {
+    LinearisedImpedance result;
+    OpPoint op;
+};
+
+Fallback fallback(const std::string& circuit, const std::string& saves, const std::vector<std::string>& own) {
+    auto run = test::run_ngspice("* fallback\n.option gmin=1e-15\n" + circuit + ".control\nsave all" + saves +
+                                     "\nop\nwrite run.raw\nquit 0\n.endc\n.end\n",
+                                 "mc-fallback");
+    REQUIRE_MESSAGE(run.status == 0, run.output);
+    raw::RawFile file = raw::read_raw(run.file("run.raw"));
+    Circuit c = netlist::read_netlist(run.file("deck.cir"));
+    OpPoint op = build_op_point(c, file, file.plots[0]);
+    LineariseTarget target{"out", {}};
+    for (const auto& name : own) target.own_devices.push_back(device_index(c, name));
+    auto r = compute_linearised_impedances(c, op, {target}, {});
+    REQUIRE(r.size() == 1);
+    return {r[0], op};
+}
+
+// ngspice's `.tf` of the output stack alone.
+double stack_tf(const std::string& stack) {
+    auto run = test::run_ngspice("* output stack\n.option gmin=1e-15\n" + stack +
+                                     ".control\ntf i(vout) vout\nwrite run.raw\nquit 0\n.endc\n.end\n",
+                                 "mc-fallback-stack");
+    REQUIRE_MESSAGE(run.status == 0, run.output);
+    raw::RawFile file = raw::read_raw(run.file("run.raw"));
+    auto z = file.plots[0].find("vout#input_impedance");
+    REQUIRE(z);
+    return file.plots[0].real[*z][0];
+}
+
+// A fallback result against ngspice's `.tf` of `stack`: the output stack alone, its gates
+// (bases) held by voltage sources.
+void check_against_stack(const LinearisedImpedance& r, const std::string& stack) {
+    REQUIRE_MESSAGE(r.resistance, r.note);
+    CHECK(r.scope == "mirror devices only");
+    MESSAGE("note: " << r.note);
+    double tf = stack_tf(stack);
+    MESSAGE("ngspice .tf of the stack " << tf << " ohm, fallback " << *r.resistance << " ohm, relative difference "
+                                        << *r.resistance / tf - 1);
+    CHECK(*r.resistance == doctest::Approx(tf).epsilon(1e-3));
+}
+
+}  // namespace
+
+TEST_CASE("fallback: only the output stack's parameters saved; its value is the .tf of the stack with gates held") {
+    const std::string model = level1n;
+    auto f = fallback(model +
+                          "vdd vdd 0 3.3\niref vdd g2 20u\n"
+                          "m4 g2 g2 g1 0 nd w=4u l=1u\nm3 g1 g1 0 0 nd w=4u l=1u\n"
+                          "m1 mid g1 0 0 nd w=4u l=1u\nm2 out g2 mid 0 nd w=4u l=1u\nvout out 0 dc 2.0\n",
+                      " @m1[gm] @m1[gds] @m1[gmbs] @m1[vds] @m2[gm] @m2[gds] @m2[gmbs] @m2[vds]", {"m1", "m2"});
+    CHECK(f.result.note.find("m3 lacks gm, gds, gmb") != std::string::npos);  // the device and what it lacks
+    CHECK(f.result.note.find("m1, m2") != std::string::npos);
+    check_against_stack(f.result, model + "vg1 g1 0 dc " + number(*f.op.voltage("g1")) + "\nvg2 g2 0 dc " +
+                                      number(*f.op.voltage("g2")) +
+                                      "\nm1 mid g1 0 0 nd w=4u l=1u\nm2 out g2 mid 0 nd w=4u l=1u\nvout out 0 dc 2.0\n");
+}
+
+TEST_CASE("fallback: a behavioural source elsewhere; NPN output with emitter degeneration") {
+    const std::string model = ".model qn npn is=1e-16 bf=100 vaf=40\n";
+    auto f = fallback(model +
+                          "vcc vcc 0 5\nrref vcc b 40k\nq1 b b e1 qn\nre1 e1 0 1k\nq2 out b e2 qn\nre2 e2 0 1k\n"
+                          "rx vcc x 10k\nb1 x 0 i=v(x)*v(x)*1e-5\nvout out 0 dc 3\n",
+                      " @q1[gm] @q1[gpi] @q1[gmu] @q1[go] @q2[gm] @q2[gpi] @q2[gmu] @q2[go]", {"q2", "re2"});
+    CHECK(f.result.note.find("behavioural b1") != std::string::npos);
+    check_against_stack(f.result, model + "vb b 0 dc " + number(*f.op.voltage("b")) +
+                                      "\nq2 out b e2 qn\nre2 e2 0 1k\nvout out 0 dc 3\n");
+}
+
+TEST_CASE("fallback: when the own devices lack their parameters too, no result and a note saying both") {
+    auto f = fallback(std::string(level1n) + "vdd vdd 0 3.3\niref vdd g 20u\nm1 g g 0 0 nd w=4u l=1u\n"
+                                             "m2 out g 0 0 nd w=4u l=1u\nvout out 0 dc 2.0\n",
+                      " @m1[gm] @m1[gds] @m1[gmbs]", {"m2"});
+    CHECK_FALSE(f.result.resistance);
+    CHECK(f.result.scope.empty());
+    CHECK(f.result.note.find("m2 lacks gm") != std::string::npos);
+    CHECK(f.result.note.find("own devices") != std::string::npos);
 }

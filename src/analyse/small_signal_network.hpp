@@ -1,0 +1,74 @@
+// The small-signal network of a circuit, or of a few of its devices, linearised at an
+// operating point, in modified nodal form: Y(s) = G + s·C. See small_signal_network.cpp
+// for the stamps, their sources and what is left out.
+#pragma once
+
+#include <complex>
+#include <cstddef>
+#include <set>
+#include <string>
+#include <string_view>
+#include <unordered_map>
+#include <vector>
+
+#include <Eigen/Sparse>
+
+#include "src/model/circuit.hpp"
+#include "src/model/op_point.hpp"
+
+namespace mirrorcheck {
+
+class SmallSignalNetwork {
+public:
+    // Unknown index of a net's voltage, or -1 for ground, a net held at AC ground, or a net
+    // the network does not have.
+    long node(std::string_view net) const;
+    long node_count() const { return node_count_; }
+    long size() const { return node_count_ + branch_count_; }
+
+    // G, with `gmin` siemens from every node to ground.
+    Eigen::SparseMatrix<double> conductance_matrix(double gmin) const;
+    // G + j·2·pi·frequency·C, with the same gmin.
+    Eigen::SparseMatrix<std::complex<double>> admittance_matrix(double frequency, double gmin) const;
+
+    // Why the network cannot be used (each names the device and what it lacks); empty when it can.
+    std::vector<std::string> problems;
+    // Assumptions that hold at every frequency ("probe vout removed", "diode d1 left out ...").
+    std::vector<std::string> notes;
+    // What the frequency-dependent part leaves out, one entry per device or kind of element
+    // ("m1: cgs, cgd not in the op data"); empty when every capacitance was stamped.
+    std::vector<std::string> storage_left_out;
+    bool has_storage = false;                    // any capacitance or inductance stamped
+    std::size_t transistors = 0;                 // transistors stamped
+    std::size_t transistors_with_capacitances = 0;
+
+    // Construction, for the builders in small_signal_network.cpp.
+    explicit SmallSignalNetwork(const std::vector<std::string>& nets);
+    long add_branch() { return node_count_ + branch_count_++; }
+    void add(long row, long col, double g);             // into G
+    void add_storage(long row, long col, double c);     // into C (farads, or -henries in a branch row)
+    void conductance(long a, long b, double g);
+    void capacitance(long a, long b, double c);
+    void vccs(long p, long n, long cp, long cn, double g);  // g·v(cp, cn) from p through the element to n
+    void voltage_branch(long k, long p, long n);             // branch current k from p to n, row v(p) - v(n) = 0
+
+private:
+    std::unordered_map<std::string, long> node_index_;
+    long node_count_ = 0;
+    long branch_count_ = 0;
+    std::vector<Eigen::Triplet<double>> g_;
+    std::vector<Eigen::Triplet<double>> c_;
+};
+
+// The whole circuit. Every independent voltage source touching a net of `probed` (lower
+// case) is left out: it is the probe that holds that node in the deck.
+SmallSignalNetwork build_circuit_network(const Circuit& circuit, const OpPoint& op, const std::set<std::string>& probed);
+
+// Only `devices` (indices into circuit.devices()), seen from `target`: the target net and
+// every net joining two of the devices through terminals that carry their current (drain,
+// source, collector, emitter, either end of a two-terminal element) keep their voltage;
+// every other net, gates and bases included, is AC ground.
+SmallSignalNetwork build_device_network(const Circuit& circuit, const OpPoint& op,
+                                        const std::vector<std::size_t>& devices, const std::string& target);
+
+}  // namespace mirrorcheck

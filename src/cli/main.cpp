@@ -8,6 +8,7 @@
 #include "parsers/common/input_error.hpp"
 #include "src/cli/list_command.hpp"
 #include "src/cli/peek_command.hpp"
+#include "src/cli/prepare_command.hpp"
 #include "src/cli/review_command.hpp"
 
 int main(int argc, char** argv) {
@@ -18,6 +19,8 @@ int main(int argc, char** argv) {
     mirrorcheck::cli::add_list_command(app, status);
     mirrorcheck::cli::add_peek_command(app, status);
     mirrorcheck::cli::add_review_command(app, status);
+    mirrorcheck::cli::add_prepare_command(app, status);
+    mirrorcheck::cli::add_run_command(app, status);
     try {
         app.parse(argc, argv);
     } catch (const CLI::Success& e) {

@@ -17,24 +17,16 @@
 namespace mirrorcheck::cli {
 namespace {
 
-struct ReviewOptions {
-    std::string netlist;
-    std::string op;
-    std::string format = "table";
-    std::string margin = "100mV";
-    std::string vce_sat = "0.2V";
-    std::string ratio_tolerance = "5%";
-    std::vector<std::string> ac, tf;  // raw files with AC or .tf plots
-    std::vector<std::string> probes;  // NODE=SOURCE
-    std::string at;                   // frequency for AC values
-    std::string tolerance = "10%";
-};
+
+}  // namespace
 
 double quantity(const std::string& option, const std::string& text, const char* unit) {
     auto v = parse_quantity(text, unit);
     if (!v) throw usage::bad_quantity(option, text, unit);
     return *v;
 }
+
+namespace {
 
 InspectOptions inspect_options(const ReviewOptions& o) {
     InspectOptions options;
@@ -91,7 +83,9 @@ OpPoint read_op(const Circuit& circuit, const std::string& path) {
     throw usage::no_op_plot(path);
 }
 
-int run_review(const ReviewOptions& o) {
+}  // namespace
+
+int review_and_report(const ReviewOptions& o) {
     const ReviewSettings settings = review_settings(o);
     Circuit circuit = netlist::read_netlist(o.netlist);
     OpPoint op = read_op(circuit, o.op);
@@ -106,7 +100,16 @@ int run_review(const ReviewOptions& o) {
     return 0;
 }
 
-}  // namespace
+
+void add_judgement_options(CLI::App& cmd, ReviewOptions& o) {
+    cmd.add_option("--margin", o.margin, "saturation margin Vds - Vdsat below which to warn (default 100mV)");
+    cmd.add_option("--vce-sat", o.vce_sat, "bipolar Vce at which saturation begins (default 0.2V)");
+    cmd.add_option("--ratio-tolerance", o.ratio_tolerance, "current-ratio error above which to warn (default 5%)");
+    cmd.add_option("--at", o.at, "frequency at which to read AC plots (default: each plot's lowest)");
+    cmd.add_option("--tolerance", o.tolerance,
+                   "relative difference above which two resistance values disagree (default 10%)");
+    cmd.add_option("--format", o.format, "output format")->check(CLI::IsMember({"table", "json"}));
+}
 
 void add_review_command(CLI::App& app, int& status) {
     auto o = std::make_shared<ReviewOptions>();
@@ -125,18 +128,12 @@ void add_review_command(CLI::App& app, int& status) {
     cmd->add_option("--op", o->op, "operating point: raw file (binary or ASCII) or `show` listing")
         ->required()
         ->check(CLI::ExistingFile);
-    cmd->add_option("--margin", o->margin, "saturation margin Vds - Vdsat below which to warn (default 100mV)");
-    cmd->add_option("--vce-sat", o->vce_sat, "bipolar Vce at which saturation begins (default 0.2V)");
-    cmd->add_option("--ratio-tolerance", o->ratio_tolerance, "current-ratio error above which to warn (default 5%)");
     cmd->add_option("--ac", o->ac, "raw file with AC plots probing the outputs (repeatable; the --op raw file is read too)")
         ->check(CLI::ExistingFile);
     cmd->add_option("--tf", o->tf, "raw file with .tf plots naming the probes (repeatable)")->check(CLI::ExistingFile);
     cmd->add_option("--probe", o->probes, "NODE=SOURCE: the source that probes output NODE (repeatable)");
-    cmd->add_option("--at", o->at, "frequency at which to read AC plots (default: each plot's lowest)");
-    cmd->add_option("--tolerance", o->tolerance,
-                    "relative difference above which two resistance values disagree (default 10%)");
-    cmd->add_option("--format", o->format, "output format")->check(CLI::IsMember({"table", "json"}));
-    cmd->callback([o, &status] { status = run_review(*o); });
+    add_judgement_options(*cmd, *o);
+    cmd->callback([o, &status] { status = review_and_report(*o); });
 }
 
 }  // namespace mirrorcheck::cli

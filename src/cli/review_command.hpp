@@ -1,9 +1,35 @@
 // `mirrorcheck review NETLIST --op FILE`: the mirrors checked against one operating point.
 #pragma once
 
+#include <string>
+#include <vector>
+
 #include <CLI/CLI.hpp>
 
 namespace mirrorcheck::cli {
+
+// Everything `review` is asked on its command line, as typed.
+struct ReviewOptions {
+    std::string netlist;
+    std::string op;
+    std::string format = "table";
+    std::string margin = "100mV";
+    std::string vce_sat = "0.2V";
+    std::string ratio_tolerance = "5%";
+    std::vector<std::string> ac, tf;  // raw files with AC or .tf plots
+    std::vector<std::string> probes;  // NODE=SOURCE
+    std::string at;                   // frequency for AC values
+    std::string tolerance = "10%";
+};
+
+// Reads the inputs, reviews, prints the report; returns 1 when a finding fails the review, else 0.
+int review_and_report(const ReviewOptions& options);
+
+// The options that judge the circuit and shape the report, shared with `run`.
+void add_judgement_options(CLI::App& cmd, ReviewOptions& options);
+
+// An option value with an SI prefix and unit, or a usage error naming the option.
+double quantity(const std::string& option, const std::string& text, const char* unit);
 
 // Adds the `review` subcommand to the application; its callback sets `status`
 // (0, or 1 when a finding has error severity).

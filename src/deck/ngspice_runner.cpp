@@ -1,0 +1,90 @@
+#include "src/deck/ngspice_runner.hpp"
+
+#include <cstdlib>
+#include <fstream>
+#include <sstream>
+#include <vector>
+
+#include <sys/wait.h>
+
+#include <fmt/format.h>
+
+#include "parsers/common/input_error.hpp"
+#include "parsers/common/text.hpp"
+
+namespace mirrorcheck {
+namespace {
+
+std::string shell_quoted(const std::string& s) {
+    std::string q = "'";
+    for (char c : s) q += c == '\'' ? std::string("'\\''") : std::string(1, c);
+    return q + "'";
+}
+
+std::string read_all(const std::filesystem::path& p) {
+    std::ifstream in(p, std::ios::binary);
+    std::stringstream ss;
+    ss << in.rdbuf();
+    return ss.str();
+}
+
+// The last `count` non-empty lines, indented.
+std::string tail(const std::string& log, std::size_t count) {
+    std::vector<std::string> lines;
+    std::istringstream in(log);
+    for (std::string line; std::getline(in, line);)
+        if (line.find_first_not_of(" \t\r") != std::string::npos) lines.push_back(line);
+    std::string out;
+    for (std::size_t k = lines.size() > count ? lines.size() - count : 0; k < lines.size(); ++k)
+        out += "\n    " + lines[k];
+    return out.empty() ? "\n    (the log is empty)" : out;
+}
+
+bool contains(const std::string& haystack, const char* needle) {
+    return to_lower(haystack).find(needle) != std::string::npos;
+}
+
+}  // namespace
+
+void run_ngspice_batch(const NgspiceCall& call, const std::string& deck) {
+    const auto deck_path = call.folder / call.deck_name, log_path = call.folder / call.log_name;
+    {
+        std::ofstream out(deck_path, std::ios::binary);
+        out << deck;
+        if (!out)
+            throw InputError("ngspice.failed", Location(deck_path.string()), "cannot write the deck into this folder");
+    }
+    // A path given relative to where mirrorcheck runs must survive the change of folder.
+    const std::string executable = call.executable.find('/') == std::string::npos
+                                       ? call.executable
+                                       : std::filesystem::absolute(call.executable).string();
+    const std::string command = fmt::format("cd {} && {} -b {} > {} 2>&1 < /dev/null", shell_quoted(call.folder.string()),
+                                            shell_quoted(executable), shell_quoted(call.deck_name),
+                                            shell_quoted(call.log_name));
+    const int raw = std::system(command.c_str());
+    const int status = raw == -1 ? -1 : WIFEXITED(raw) ? WEXITSTATUS(raw) : 128 + WTERMSIG(raw);
+    const std::string log = read_all(log_path);
+    const Location where(log_path.string());
+    if (status == 127 || status == 126)
+        throw InputError("ngspice.missing", Location(call.executable),
+                         fmt::format("cannot start `{}`: install ngspice (Debian: apt-get install ngspice) or give its "
+                                     "path with --ngspice{}",
+                                     call.executable, tail(log, 3)));
+    if (contains(log, "no convergence") || contains(log, "timestep too small") || contains(log, "iteration limit"))
+        throw InputError("ngspice.no-convergence", where,
+                         fmt::format("ngspice did not converge on the operating point; check the netlist's bias, or "
+                                     "help it with .nodeset or .option gmin/itl1. The end of its log:{}",
+                                     tail(log, 12)));
+    if (status != 0 || contains(log, "simulation interrupted due to error"))
+        throw ngspice_failure(call, status != 0 ? fmt::format("exited with status {}", status)
+                                                : std::string("stopped on an error"));
+}
+
+InputError ngspice_failure(const NgspiceCall& call, const std::string& what) {
+    const auto log_path = call.folder / call.log_name;
+    return InputError("ngspice.failed", Location(log_path.string()),
+                      fmt::format("ngspice {} on {}. The end of its log:{}", what, call.deck_name,
+                                  tail(read_all(log_path), 12)));
+}
+
+}  // namespace mirrorcheck

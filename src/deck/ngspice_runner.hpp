@@ -1,0 +1,29 @@
+// Runs ngspice in batch mode on a deck, in a folder of its own, and says clearly when it
+// cannot: not installed, failed, or did not converge.
+#pragma once
+
+#include <filesystem>
+#include <string>
+
+#include "parsers/common/input_error.hpp"
+
+namespace mirrorcheck {
+
+struct NgspiceCall {
+    std::string executable = "ngspice";  // a name looked up on PATH, or a path
+    std::filesystem::path folder;        // working folder; the deck is written and run here
+    std::string deck_name = "review.cir";
+    std::string log_name = "ngspice.log";
+};
+
+// Writes `deck` into the folder and runs `executable -b deck_name` there, its output going
+// to log_name. Throws InputError with code "ngspice.missing" (the executable could not be
+// started), "ngspice.failed" (non-zero exit status or an error in its log) or
+// "ngspice.no-convergence", each with the end of the log.
+void run_ngspice_batch(const NgspiceCall& call, const std::string& deck);
+
+// The "ngspice.failed" error for a run that ended but did not produce what was expected,
+// with `what` ("wrote no operating point") and the end of the log.
+InputError ngspice_failure(const NgspiceCall& call, const std::string& what);
+
+}  // namespace mirrorcheck

@@ -4,6 +4,7 @@
 
 #include <fmt/format.h>
 
+#include "src/analyse/apply_waivers.hpp"
 #include "src/model/op_point_build.hpp"
 
 namespace mirrorcheck {
@@ -27,6 +28,34 @@ std::vector<std::string> output_nodes(const std::vector<Mirror>& mirrors) {
         for (const auto& o : m.outputs)
             if (std::find(nodes.begin(), nodes.end(), o.node) == nodes.end()) nodes.push_back(o.node);
     return nodes;
+}
+
+// Each output node with the devices of the first output that drives it: its stack and the
+// stack's degeneration resistors, for the linearised pass's fallback.
+std::vector<LineariseTarget> linearise_targets(const std::vector<Mirror>& mirrors) {
+    std::vector<LineariseTarget> targets;
+    for (const auto& m : mirrors)
+        for (const auto& o : m.outputs) {
+            bool seen = false;
+            for (const auto& t : targets) seen = seen || t.node == o.node;
+            if (seen) continue;
+            LineariseTarget t{o.node, o.devices};
+            for (const auto& r : o.degeneration)
+                if (r) t.own_devices.push_back(*r);
+            targets.push_back(std::move(t));
+        }
+    return targets;
+}
+
+// The frequencies of the AC plots, sorted and without repeats: where the linearised
+// spectrum is given, so that it can be read beside the simulated one.
+std::vector<double> ac_frequencies(const std::vector<SimulationPlot>& plots) {
+    std::vector<double> f;
+    for (const auto& p : plots)
+        if (p.kind == "ac") f.insert(f.end(), p.frequencies.begin(), p.frequencies.end());
+    std::sort(f.begin(), f.end());
+    f.erase(std::unique(f.begin(), f.end()), f.end());
+    return f;
 }
 
 // MOS devices whose op data has gm and gds but no gmb (decks that save only some
@@ -86,7 +115,7 @@ Review run_review(const Circuit& circuit, const OpPoint& given_op, const std::ve
     require_transistor_quantities(op, circuit, transistors_of(circuit, review.mirrors));
     review.inspection = inspect_mirrors(circuit, op, review.mirrors, settings.inspect);
     const std::vector<std::string> nodes = output_nodes(review.mirrors);
-    review.linearised = compute_linearised_impedances(circuit, op, nodes);
+    review.linearised = compute_linearised_impedances(circuit, op, linearise_targets(review.mirrors), ac_frequencies(plots));
     review.simulated = find_simulated_impedances(circuit, plots, nodes, settings.simulated);
 
     ReconcileOptions reconcile{settings.tolerance, !plots.empty(), no_gmb};
@@ -104,6 +133,7 @@ Review run_review(const Circuit& circuit, const OpPoint& given_op, const std::ve
     }
     review.findings.insert(review.findings.end(), review.reconciliation.findings.begin(),
                            review.reconciliation.findings.end());
+    apply_waivers(review.findings, settings.waivers);
     std::stable_sort(review.findings.begin(), review.findings.end(), [](const Finding& a, const Finding& b) {
         if (reading_group(a) != reading_group(b)) return reading_group(a) < reading_group(b);
         return a.severity < b.severity;

@@ -4,6 +4,7 @@
 #include <string>
 #include <vector>
 
+#include "parsers/waivers/waivers.hpp"
 #include "src/analyse/finding.hpp"
 #include "src/analyse/inspect.hpp"
 #include "src/analyse/linearise.hpp"
@@ -20,6 +21,7 @@ struct ReviewSettings {
     InspectOptions inspect;
     SimulatedOptions simulated;   // --probe, --at
     double tolerance = 0.10;      // --tolerance: the three resistance values must agree within this
+    waivers::Waivers waivers;     // --waive: findings accepted, shown as waived
 };
 
 struct Review {
@@ -43,7 +45,8 @@ struct Review {
 
 // Recognises the mirrors, checks that the operating point has what they need, inspects
 // them, solves the linearised circuit at their outputs, reads the simulated impedance at
-// each output from `plots` (AC and .tf results; may be empty), and reconciles the three.
+// each output from `plots` (AC and .tf results; may be empty), reconciles the three, and
+// marks the findings the waivers accept.
 // Throws InputError "op.missing-parameters" naming what is missing (a MOS device that lacks
 // only gmb is reviewed with gmb = 0, and a finding says so).
 Review run_review(const Circuit& circuit, const OpPoint& op, const std::vector<SimulationPlot>& plots,

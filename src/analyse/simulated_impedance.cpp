@@ -243,6 +243,10 @@ void read_tf(const Circuit& circuit, const SimulationPlot& plot, const Probe& p,
 
 }  // namespace
 
+const Device* netlist_probe(const Circuit& circuit, const std::string& node) {
+    return choose_probe(circuit, to_lower(node), SimulatedOptions{}).device;
+}
+
 std::vector<SimulatedImpedance> find_simulated_impedances(const Circuit& circuit,
                                                           const std::vector<SimulationPlot>& plots,
                                                           const std::vector<std::string>& nodes,

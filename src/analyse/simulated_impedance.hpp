@@ -40,6 +40,10 @@ struct SimulatedImpedance {
     const SimulatedValue* best() const { return values.empty() ? nullptr : &values.front(); }
 };
 
+// The source the netlist itself probes `node` with, as find_simulated_impedances would
+// choose it without --probe: null when there is none or the choice is ambiguous.
+const Device* netlist_probe(const Circuit& circuit, const std::string& node);
+
 // For each node: its probe and the impedance the plots report through it. Throws
 // InputError "usage.probe" when a ProbeChoice names no source, or a source not on its node.
 std::vector<SimulatedImpedance> find_simulated_impedances(const Circuit& circuit,

@@ -12,6 +12,8 @@
 #include "src/cli/usage_errors.hpp"
 #include "src/model/op_point_build.hpp"
 #include "src/model/simulation_plots_build.hpp"
+#include "parsers/waivers/waivers.hpp"
+#include "src/report/junit_report.hpp"
 #include "src/report/review_report.hpp"
 
 namespace mirrorcheck::cli {
@@ -40,6 +42,10 @@ ReviewSettings review_settings(const ReviewOptions& o) {
     ReviewSettings settings;
     settings.inspect = inspect_options(o);
     settings.tolerance = quantity("--tolerance", o.tolerance, "%");
+    for (const auto& path : o.waive) {
+        auto more = waivers::read_waivers(path);
+        settings.waivers.insert(settings.waivers.end(), more.begin(), more.end());
+    }
     if (!o.at.empty()) settings.simulated.at = quantity("--at", o.at, "Hz");
     for (const auto& p : o.probes) {
         auto eq = p.find('=');
@@ -93,7 +99,11 @@ int review_and_report(const ReviewOptions& o) {
     std::vector<SimulationPlot> plots = read_simulation_plots(o, simulation_files);
     Review review = run_review(circuit, op, plots, settings);
     report::ReviewInputs inputs{o.netlist, op.origin, simulation_files};
-    if (o.format == "json") std::cout << report::review_to_json(inputs, circuit, op, review).dump(2) << "\n";
+    if (o.format == "json")
+        std::cout << report::review_to_json(inputs, circuit, op, review)
+                         .dump(2, ' ', false, nlohmann::json::error_handler_t::replace)
+                  << "\n";
+    else if (o.format == "junit") std::cout << report::review_to_junit(inputs, circuit, op, review);
     else std::cout << report::write_review_table(inputs, circuit, op, review);
     for (const auto& f : review.findings)
         if (fails_review(f)) return 1;
@@ -108,7 +118,10 @@ void add_judgement_options(CLI::App& cmd, ReviewOptions& o) {
     cmd.add_option("--at", o.at, "frequency at which to read AC plots (default: each plot's lowest)");
     cmd.add_option("--tolerance", o.tolerance,
                    "relative difference above which two resistance values disagree (default 10%)");
-    cmd.add_option("--format", o.format, "output format")->check(CLI::IsMember({"table", "json"}));
+    cmd.add_option("--waive", o.waive, "waiver file: lines `SUBJECT CODE REASON` of findings to accept (repeatable)")
+        ->check(CLI::ExistingFile);
+    cmd.add_option("--format", o.format, "output format: table, json (schema mirrorcheck-report/1) or junit (XML)")
+        ->check(CLI::IsMember({"table", "json", "junit"}));
 }
 
 void add_review_command(CLI::App& app, int& status) {
@@ -116,14 +129,19 @@ void add_review_command(CLI::App& app, int& status) {
     CLI::App* cmd = app.add_subcommand("review", "Check every current mirror against an operating point");
     cmd->footer(
         "For each mirror: each transistor's region and saturation margin, the output\n"
-        "resistance by inspection (reflection rule and family formulas, with and without\n"
-        "body effect), the output headroom, and the current ratio against the design.\n"
-        "The operating point comes from an ngspice raw file (op plot, or an AC plot that\n"
-        "repeats the device parameters) or from ngspice's `show all` listing.\n\n"
-        "Exit status: 0 no finding at error severity, 1 some, 2 bad usage or input.\n\n"
+        "headroom, the current ratio against the design, and the output resistance three\n"
+        "ways: by inspection (reflection rule and family formulas), linearised (an exact\n"
+        "small-signal solve of the whole circuit) and simulated (read through a probe\n"
+        "source from AC or .tf plots), with a finding naming the likely cause wherever two\n"
+        "disagree by more than --tolerance. The operating point comes from an ngspice raw\n"
+        "file (op plot, or an AC plot that repeats the device parameters) or from ngspice's\n"
+        "`show all` listing; `mirrorcheck prepare` writes a deck that saves all of it.\n\n"
+        "Exit status: 0 no unwaived finding at error severity, 1 some, 2 bad usage or input.\n\n"
         "Examples:\n"
         "  mirrorcheck review samples/tamarack/bias.cir --op samples/tamarack/bias_op.raw\n"
-        "  mirrorcheck review amp.cir --op show.txt --margin 50mV --format json");
+        "  mirrorcheck review amp.cir --op op.raw --ac probes.raw --probe out=vout --at 10Hz\n"
+        "  mirrorcheck review amp.cir --op show.txt --margin 50mV --format json\n"
+        "  mirrorcheck review amp.cir --op op.raw --waive accepted.txt --format junit > review.xml");
     cmd->add_option("NETLIST", o->netlist, "ngspice netlist")->required()->check(CLI::ExistingFile);
     cmd->add_option("--op", o->op, "operating point: raw file (binary or ASCII) or `show` listing")
         ->required()

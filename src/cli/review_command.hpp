@@ -20,6 +20,7 @@ struct ReviewOptions {
     std::vector<std::string> probes;  // NODE=SOURCE
     std::string at;                   // frequency for AC values
     std::string tolerance = "10%";
+    std::vector<std::string> waive;   // waiver files
 };
 
 // Reads the inputs, reviews, prints the report; returns 1 when a finding fails the review, else 0.

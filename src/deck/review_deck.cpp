@@ -1,8 +1,9 @@
 // The review deck, in order:
 //   * a title and what wrote it
 //   .include "<netlist>"            the user's netlist, by absolute path, unchanged
-//   probes, one per mirror output k (node N) that the netlist does not already hold with a
-//   voltage source (such a source, a testbench's usual load, becomes the probe itself):
+//   probes, one per mirror output k (node N) that the netlist does not already probe (a
+//   source that review would take as the probe, e.g. a testbench's voltage source holding
+//   the output, serves as it is; simulated_impedance.cpp says which):
 //     held:      vmc_probe<k> mc_probe<k> 0 dc 0 ac 0   and   cmc_probe<k> mc_probe<k> N 1
 //     injected:  imc_probe<k> 0 N dc 0 ac 0
 //   .control
@@ -34,6 +35,7 @@
 
 #include "parsers/common/input_error.hpp"
 #include "parsers/common/text.hpp"
+#include "src/analyse/simulated_impedance.hpp"
 #include "src/model/op_point_build.hpp"
 
 namespace mirrorcheck {
@@ -79,20 +81,6 @@ std::string unique_name(const Circuit& circuit, const std::string& wanted) {
     return name;
 }
 
-// The one independent voltage source on `node`, if there is exactly one.
-const Device* holding_source(const Circuit& circuit, const std::string& node) {
-    const Net* net = circuit.find_net(node);
-    if (!net) return nullptr;
-    const Device* found = nullptr;
-    for (const TerminalRef& t : net->terminals) {
-        const Device& d = circuit.devices()[t.device];
-        if (d.kind != DeviceKind::vsource || &d == found) continue;
-        if (found) return nullptr;
-        found = &d;
-    }
-    return found;
-}
-
 }  // namespace
 
 ReviewDeck write_review_deck(const std::filesystem::path& netlist, const Circuit& circuit,
@@ -119,11 +107,10 @@ ReviewDeck write_review_deck(const std::filesystem::path& netlist, const Circuit
             if (!probed.insert(to_lower(o.node)).second) continue;
             const std::size_t k = deck.probes.size() + 1;
             DeckProbe p{o.node, m.id, {}, DeckProbe::Kind::injected};
-            if (const Device* holder = holding_source(circuit, o.node)) {
-                p.kind = DeckProbe::Kind::own_source;
-                p.source = to_lower(holder->name);
-                out += fmt::format("* probe {} for output {} of {}: the netlist's own {}, which holds it\n", k, o.node,
-                                   m.id, p.source);
+            if (const Device* own = netlist_probe(circuit, o.node)) {
+                p.kind = own->kind == DeviceKind::vsource ? DeckProbe::Kind::own_source : DeckProbe::Kind::injected;
+                p.source = to_lower(own->name);
+                out += fmt::format("* probe {} for output {} of {}: the netlist's own {}\n", k, o.node, m.id, p.source);
             } else if (options.mode == ProbeMode::held) {
                 out += fmt::format("* probe {} for output {} of {}\n", k, o.node, m.id);
                 const std::string net = unique_name(circuit, fmt::format("mc_probe{}", k));

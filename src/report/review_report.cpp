@@ -8,6 +8,7 @@
 #include <fmt/format.h>
 
 #include "src/report/device_names.hpp"
+#include "src/report/finding_scope.hpp"
 #include "parsers/common/si_format.hpp"
 
 namespace mirrorcheck::report {
@@ -22,14 +23,6 @@ std::optional<double> current_of(const OpPoint& op, const Device& d) {
     const DeviceOp* dev = op.device(d.name);
     if (!dev) return std::nullopt;
     return dev->get(dev->is_mos ? "id" : "ic");
-}
-
-bool concerns(const Finding& f, const Circuit& c, const Mirror& m, const MirrorOutput& o) {
-    if (f.mirror != m.id) return false;
-    if (f.subject == o.node) return true;
-    for (std::size_t i : o.devices)
-        if (f.subject == device(c, i).name) return true;
-    return false;
 }
 
 nlohmann::json finding_json(const Finding& f) {
@@ -48,6 +41,14 @@ nlohmann::json comparisons_json(const OutputReconciliation* r) {
         for (const auto& c : r->comparisons)
             j.push_back({{"pair", c.pair}, {"first", c.first}, {"second", c.second}, {"difference", c.difference},
                          {"agrees", c.agrees}});
+    return j;
+}
+
+nlohmann::json spectrum_json(const LinearisedImpedance* linearised) {
+    nlohmann::json j = nlohmann::json::array();
+    if (linearised)
+        for (const auto& p : linearised->spectrum)
+            j.push_back({{"frequency", p.frequency}, {"magnitude", p.magnitude}, {"phase_degrees", p.phase_degrees}});
     return j;
 }
 
@@ -75,6 +76,10 @@ nlohmann::json rout_json(const OutputInspection& o, const LinearisedImpedance* l
             {"levels", levels},
             {"linearised", linearised ? optional_number(linearised->resistance) : nlohmann::json()},
             {"linearised_note", linearised ? linearised->note : std::string()},
+            {"linearised_scope", linearised && !linearised->scope.empty() ? nlohmann::json(linearised->scope) : nlohmann::json()},
+            {"corner_frequency", linearised ? optional_number(linearised->corner_frequency) : nlohmann::json()},
+            {"spectrum", spectrum_json(linearised)},
+            {"spectrum_note", linearised ? linearised->spectrum_note : std::string()},
             {"simulated", sim ? nlohmann::json(sim->magnitude) : nlohmann::json()},
             {"simulated_source", sim ? nlohmann::json(sim->source) : nlohmann::json()},
             {"simulated_note", simulated ? simulated->note : std::string()},
@@ -155,7 +160,7 @@ nlohmann::json review_to_json(const ReviewInputs& inputs, const Circuit& circuit
             for (const auto& r : oi.devices) add_device(r);
             nlohmann::json findings = nlohmann::json::array();
             for (const auto& f : review.findings)
-                if (concerns(f, circuit, m, o)) findings.push_back(finding_json(f));
+                if (finding_concerns_output(f, circuit, m, o)) findings.push_back(finding_json(f));
             outputs.push_back({{"node", o.node},
                                {"devices", device_names(circuit, o.devices)},
                                {"current", current_json(circuit, op, m, o, oi)},
@@ -216,9 +221,14 @@ void write_resistances(std::string& out, const MirrorOutput& o, const OutputInsp
                    best.method, best.exact ? "exact" : "approximate", format_si(best.value_no_body, "Ω"));
     fmt::format_to(it, "                          = {}\n", best.formula);
     if (!best.note.empty()) fmt::format_to(it, "                          {}\n", best.note);
-    if (linearised && linearised->resistance)
-        fmt::format_to(it, "          linearised  {:>9}  the whole circuit at {}{}\n", format_si(*linearised->resistance, "Ω"),
-                       o.node, linearised->note.empty() ? "" : "; " + linearised->note);
+    if (linearised && linearised->resistance) {
+        fmt::format_to(it, "          linearised  {:>9}  {} at {}{}\n", format_si(*linearised->resistance, "Ω"),
+                       linearised->scope.empty() ? "the whole circuit" : linearised->scope, o.node,
+                       linearised->note.empty() ? "" : "; " + linearised->note);
+        if (linearised->corner_frequency)
+            fmt::format_to(it, "                      {:>9}  where |Z| falls 3 dB below its DC value\n",
+                           format_si(*linearised->corner_frequency, "Hz"));
+    }
     else
         fmt::format_to(it, "          linearised  {:>9}  {}\n", "-", linearised ? linearised->note : "not computed");
     if (const SimulatedValue* sim = simulated ? simulated->best() : nullptr) {
@@ -235,7 +245,7 @@ void write_resistances(std::string& out, const MirrorOutput& o, const OutputInsp
         std::string line;
         for (const auto& c : reconciliation->comparisons)
             line += fmt::format("{}{} {}{}", line.empty() ? "" : ", ", comparison_label(c.pair),
-                                std::abs(c.difference) < 1 ? fmt::format("{:+.1f} %", 100.0 * c.difference)
+                                std::abs(c.difference) < 1 ? fmt::format("{:+.1f} %", std::abs(c.difference) < 5e-4 ? 0.0 : 100.0 * c.difference)
                                                            : fmt::format("×{:.3g}", c.difference + 1.0),
                                 c.agrees ? "" : " (disagree)");
         fmt::format_to(it, "          agreement   {}\n", line);

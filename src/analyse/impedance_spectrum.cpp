@@ -1,6 +1,7 @@
 // The impedance of a linearised network against frequency.
 //
-// What it computes: Z(jw) at a node, the voltage there when 1 A is injected into it, with
+// What it computes: Z(jw) at a node, the voltage there when 1 A is injected into it (or,
+// at a node held by its probe source, 1 V over the current the source delivers), with
 // the network's admittance matrix Y(jw) = G + jw·C (small_signal_network.cpp); and the
 // 3 dB corner, the lowest frequency where |Z| = |Z(0)|/sqrt(2).
 //
@@ -40,19 +41,28 @@ public:
     }
 
     // Z at each node; NaN when the matrix is singular at this frequency.
-    std::vector<Complex> impedances(double frequency, const std::vector<long>& nodes) {
-        std::vector<Complex> z(nodes.size(), Complex(std::nan(""), std::nan("")));
+    std::vector<Complex> impedances(double frequency, const std::vector<Port>& ports) {
+        std::vector<Complex> z(ports.size(), Complex(std::nan(""), std::nan("")));
         lu_.factorize(network_.admittance_matrix(frequency, gmin_));
-        if (lu_.info() != Eigen::Success || nodes.empty()) return z;
-        Eigen::MatrixXcd rhs = Eigen::MatrixXcd::Zero(network_.size(), static_cast<long>(nodes.size()));
-        for (std::size_t i = 0; i < nodes.size(); ++i) rhs(nodes[i], static_cast<long>(i)) = 1.0;
+        if (lu_.info() != Eigen::Success || ports.empty()) return z;
+        Eigen::MatrixXcd rhs = Eigen::MatrixXcd::Zero(network_.size(), static_cast<long>(ports.size()));
+        for (std::size_t i = 0; i < ports.size(); ++i) {
+            const Port& p = ports[i];
+            if (p.branch >= 0) rhs(p.branch, static_cast<long>(i)) = p.sign;  // the node 1 V above the source's other end
+            else rhs(p.node, static_cast<long>(i)) = 1.0;                     // 1 A into the node
+        }
         Eigen::MatrixXcd v = lu_.solve(rhs);
         if (lu_.info() != Eigen::Success) return z;
-        for (std::size_t i = 0; i < nodes.size(); ++i) z[i] = v(nodes[i], static_cast<long>(i));
+        for (std::size_t i = 0; i < ports.size(); ++i) {
+            const Port& p = ports[i];
+            // The branch current flows from the source's + node through it to its - node.
+            z[i] = p.branch >= 0 ? Complex(1.0) / (-p.sign * v(p.branch, static_cast<long>(i)))
+                                 : v(p.node, static_cast<long>(i));
+        }
         return z;
     }
 
-    Complex impedance(double frequency, long node) { return impedances(frequency, {node}).front(); }
+    Complex impedance(double frequency, const Port& port) { return impedances(frequency, {port}).front(); }
 
 private:
     const SmallSignalNetwork& network_;
@@ -61,7 +71,7 @@ private:
 };
 
 // Illinois regula falsi on h(x) = ln|Z(10^x)| - ln(threshold), with h(lo) > 0 >= h(hi).
-double refine_corner(Solver& solver, long node, double threshold, double lo, double h_lo, double hi, double h_hi) {
+double refine_corner(Solver& solver, const Port& node, double threshold, double lo, double h_lo, double hi, double h_hi) {
     int stuck = 0;  // which end stayed last: -1 lo, +1 hi
     for (int iteration = 0; iteration < 100 && hi - lo > 1e-7 / std::log(10.0); ++iteration) {
         double x = hi - h_hi * (hi - lo) / (h_hi - h_lo);
@@ -90,7 +100,7 @@ double refine_corner(Solver& solver, long node, double threshold, double lo, dou
 
 }  // namespace
 
-std::vector<std::vector<Complex>> compute_impedance_spectrum(const SmallSignalNetwork& network, const std::vector<long>& nodes,
+std::vector<std::vector<Complex>> compute_impedance_spectrum(const SmallSignalNetwork& network, const std::vector<Port>& nodes,
                                                              const std::vector<double>& frequencies, double gmin) {
     std::vector<std::vector<Complex>> out;
     if (frequencies.empty() || network.size() == 0) return out;
@@ -100,7 +110,7 @@ std::vector<std::vector<Complex>> compute_impedance_spectrum(const SmallSignalNe
     return out;
 }
 
-std::vector<CornerFrequency> find_corner_frequencies(const SmallSignalNetwork& network, const std::vector<long>& nodes,
+std::vector<CornerFrequency> find_corner_frequencies(const SmallSignalNetwork& network, const std::vector<Port>& nodes,
                                                      const std::vector<double>& dc_magnitude, double gmin) {
     std::vector<CornerFrequency> out(nodes.size());
     if (nodes.empty() || network.size() == 0) return out;

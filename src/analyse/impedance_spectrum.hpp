@@ -11,12 +11,12 @@
 
 namespace mirrorcheck {
 
-// Z(j·2·pi·f) at each node (an unknown index of `network`) for each frequency:
+// Z(j·2·pi·f) at each port of `network` (small_signal_network.hpp) for each frequency:
 // result[frequency][node]. One factorisation per frequency serves every node. The values
 // at a frequency where the matrix is singular are NaN. `gmin` siemens are added from
 // every node to ground, as in the DC solve.
 std::vector<std::vector<std::complex<double>>> compute_impedance_spectrum(const SmallSignalNetwork& network,
-                                                                          const std::vector<long>& nodes,
+                                                                          const std::vector<Port>& nodes,
                                                                           const std::vector<double>& frequencies,
                                                                           double gmin);
 
@@ -27,7 +27,7 @@ struct CornerFrequency {
 
 // Per node, the lowest frequency at which |Z| falls to `dc_magnitude`/sqrt(2) (the 3 dB
 // point of the DC value), searched between 1 uHz and 1 THz.
-std::vector<CornerFrequency> find_corner_frequencies(const SmallSignalNetwork& network, const std::vector<long>& nodes,
+std::vector<CornerFrequency> find_corner_frequencies(const SmallSignalNetwork& network, const std::vector<Port>& nodes,
                                                      const std::vector<double>& dc_magnitude, double gmin);
 
 }  // namespace mirrorcheck

@@ -24,11 +24,11 @@
 // on the output) is not in it. The note says why the whole circuit was not solved.
 //
 // Assumptions:
-//   - The target nodes are held by probe voltage sources in the deck. Every independent
-//     voltage source touching any target node is removed (left open) in the one matrix that
-//     serves all targets; so while one target is solved, the others float too, rather than
-//     being held as each one's own `.tf` would hold them. Outputs that do not load each
-//     other (the usual mirror outputs) are unaffected.
+//   - A target node held by a voltage source of the deck (its probe, e.g. `vout out 0 dc
+//     1.2`) is measured through that source: the source's voltage is set to 1 and Z is 1
+//     over the current it delivers, every other probe still holding its node. That is
+//     what each probe's own `.tf` (and an AC run driving only that probe) reports, even
+//     when outputs load each other. A target without such a source gets 1 A injected.
 //   - When the DC matrix is singular (a node with no DC path to ground, e.g. a node only
 //     between capacitors), 1e-12 S is added from every node to ground and the matrix is
 //     factorised again: the default `gmin` of SPICE, which ngspice places across device
@@ -99,12 +99,16 @@ struct DcSolver {
             note = "singular network: 1e-12 S added from every node to ground";
     }
 
-    std::optional<double> resistance(long node, long size) {
+    // See Port (small_signal_network.hpp): 1 A into the node, or 1 V from its probe source.
+    std::optional<double> resistance(const Port& port, long size) {
         Eigen::VectorXd j = Eigen::VectorXd::Zero(size);
-        j[node] = 1.0;
+        if (port.branch >= 0) j[port.branch] = port.sign;
+        else j[port.node] = 1.0;
         Eigen::VectorXd v = lu.solve(j);
-        if (lu.info() != Eigen::Success || !std::isfinite(v[node])) return std::nullopt;
-        return v[node];
+        if (lu.info() != Eigen::Success) return std::nullopt;
+        const double z = port.branch >= 0 ? 1.0 / (-port.sign * v[port.branch]) : v[port.node];
+        if (!std::isfinite(z)) return std::nullopt;
+        return z;
     }
 };
 
@@ -116,7 +120,7 @@ std::string spectrum_unavailable(const SmallSignalNetwork& network) {
 }
 
 // Fills spectrum, corner and spectrum_note of results solved on `network` at `nodes`.
-void add_spectrum(const std::vector<LinearisedImpedance*>& results, const std::vector<long>& nodes,
+void add_spectrum(const std::vector<LinearisedImpedance*>& results, const std::vector<Port>& nodes,
                   const SmallSignalNetwork& network, double gmin, const std::vector<double>& frequencies) {
     if (results.empty()) return;
     if (std::string why = spectrum_unavailable(network); !why.empty()) {
@@ -145,7 +149,7 @@ void add_spectrum(const std::vector<LinearisedImpedance*>& results, const std::v
         return;
     }
     std::vector<double> dc;
-    std::vector<long> corner_nodes;
+    std::vector<Port> corner_nodes;
     std::vector<std::size_t> corner_results;
     for (std::size_t i = 0; i < results.size(); ++i) {
         double m = std::abs(results[i]->resistance.value_or(0.0));
@@ -178,10 +182,10 @@ std::string solve_whole_circuit(std::vector<LinearisedImpedance>& out, const Cir
     const std::string common = join({join(network.notes, "; "), dc.note}, "; ");
 
     std::vector<LinearisedImpedance*> solved;
-    std::vector<long> nodes;
+    std::vector<Port> nodes;
     for (auto& r : out) {
-        long k = r.node == "0" ? -1 : network.node(r.node);
-        if (k < 0) {
+        const Port k = r.node == "0" ? Port{} : network.port(r.node);
+        if (k.node < 0) {
             r.note = r.node == "0" ? "the ground node has no impedance" : "no net " + r.node + " in the circuit";
             continue;
         }
@@ -190,7 +194,8 @@ std::string solve_whole_circuit(std::vector<LinearisedImpedance>& out, const Cir
             r.note = "the solve failed";
             continue;
         }
-        r.note = common;
+        r.note = k.branch >= 0 ? join({"held by " + k.source + ", the other outputs held by theirs", common}, "; ")
+                               : common;
         r.scope = whole_circuit;
         solved.push_back(&r);
         nodes.push_back(k);
@@ -228,7 +233,7 @@ void solve_own_devices(LinearisedImpedance& r, const LineariseTarget& target, co
         return;
     }
     DcSolver dc(network);
-    long k = network.node(r.node);
+    const Port k = network.port(r.node);
     if (dc.failure.empty()) r.resistance = dc.resistance(k, network.size());
     if (!r.resistance) {
         r.note = not_whole + "; nor on the mirror's own devices: " + (dc.failure.empty() ? "the solve failed" : dc.failure);

@@ -25,7 +25,7 @@ struct ImpedancePoint {
 struct LinearisedImpedance {
     std::string node;                 // as asked, lower case
     std::optional<double> resistance; // ohms, at DC; absent when the network could not be built or solved
-    std::string note;                 // why it is absent, or what was assumed ("probe vout removed; ...")
+    std::string note;                 // why it is absent, or what was assumed ("held by vout, ...; ...")
     std::string scope;                // "whole circuit" or "mirror devices only"; empty when absent
     std::vector<ImpedancePoint> spectrum;    // at the asked frequencies, in order; empty when not computed
     std::optional<double> corner_frequency;  // Hz, where |Z| = |Z(0)|/sqrt(2); absent when no
@@ -45,9 +45,9 @@ struct LineariseTarget {
 // linearised at `op`: the resistance at DC, and, when the op data holds the device
 // capacitances, |Z| and its phase at each of `frequencies` and the 3 dB corner frequency.
 // Each node is expected to be held in the deck by a probe voltage source (e.g.
-// `vout out 0 dc 1.2`): every independent voltage source touching any target node is left
-// out of the network (it is the probe), so that the node is held by nothing but the
-// circuit. When the whole circuit cannot be linearised (a transistor lacks its
+// `vout out 0 dc 1.2`): such a node is measured through its probe (1 V on the source over
+// the current it delivers), every other probe holding its own node, as each probe's `.tf`
+// does; a node without one gets 1 A injected. When the whole circuit cannot be linearised (a transistor lacks its
 // conductances, a behavioural source, internal nodes, ...), each target with own devices
 // is solved on those devices alone, every net outside them at AC ground (scope "mirror
 // devices only"). One result per target, in order.

@@ -27,8 +27,8 @@ struct ReviewSettings {
 struct Review {
     std::vector<Mirror> mirrors;
     InspectionResult inspection;
-    // The impedance at each mirror output node in the whole linearised circuit, with the
-    // voltage sources on those nodes (the probes) removed.
+    // The impedance at each mirror output node in the whole linearised circuit, measured
+    // through the node's probe source when it has one (linearise.hpp).
     std::vector<LinearisedImpedance> linearised;
     const LinearisedImpedance* linearised_at(const std::string& node) const;
     // The impedance the simulator reports at each output node, through its probe.

@@ -40,8 +40,8 @@
 //                csub from the collector (vertical, the NPN default or `subs=1`) or the base
 //                (lateral, the PNP default or `subs=-1`) to the substrate terminal, ground
 //                when the device has none (ngspice's bjtacld.c).
-//   V            shorts: a branch row v(pos) - v(neg) = 0; those touching a probed net are
-//                removed (the probes)
+//   V            shorts: a branch row v(pos) - v(neg) = 0; one touching a probed net is that
+//                net's probe (Port), through which its impedance is measured
 //   I            open
 //   E            branch row v(pos) - v(neg) = gain·v(cpos, cneg); G: gain·v(cpos, cneg) from pos to neg
 //   F, H         through the branch current of the controlling voltage source
@@ -77,6 +77,23 @@ SmallSignalNetwork::SmallSignalNetwork(const std::vector<std::string>& nets) {
 long SmallSignalNetwork::node(std::string_view net) const {
     auto it = node_index_.find(to_lower(net));
     return it == node_index_.end() ? -1 : it->second;
+}
+
+Port SmallSignalNetwork::port(std::string_view net) const {
+    auto it = probes_.find(to_lower(net));
+    if (it != probes_.end()) return it->second;
+    Port p;
+    p.node = node(net);
+    return p;
+}
+
+void SmallSignalNetwork::set_probe(const std::string& net, long branch, double sign, const std::string& source) {
+    Port p;
+    p.node = node(net);
+    p.branch = branch;
+    p.sign = sign;
+    p.source = source;
+    if (p.node >= 0) probes_.emplace(to_lower(net), p);
 }
 
 void SmallSignalNetwork::add(long row, long col, double g) {
@@ -192,19 +209,23 @@ public:
     // Voltage sources first, since F and H refer to their branches by name. A source
     // touching a probed net is left out.
     void voltage_sources(const std::vector<std::size_t>& devices, const std::set<std::string>& probed) {
-        std::vector<std::string> probes;
+        std::set<std::string> held;
         for (std::size_t i : devices) {
             const Device& d = circuit_.devices()[i];
             if (d.kind != DeviceKind::vsource) continue;
-            if (touches(d, probed)) {
-                probes.push_back(d.name);
-                continue;
-            }
             long k = n_.add_branch();
             source_branch_[to_lower(d.name)] = k;
             n_.voltage_branch(k, at(d, "pos"), at(d, "neg"));
+            for (const char* role : {"pos", "neg"}) {
+                const Terminal* t = d.terminal(role);
+                if (!t || !probed.count(to_lower(t->net))) continue;
+                if (!held.insert(to_lower(t->net)).second) {
+                    n_.notes.push_back("several voltage sources on " + to_lower(t->net) + "; the first is its probe");
+                    continue;
+                }
+                n_.set_probe(to_lower(t->net), k, std::string(role) == "pos" ? 1.0 : -1.0, to_lower(d.name));
+            }
         }
-        if (!probes.empty()) n_.notes.push_back("probe " + join(probes, ", ") + " removed");
     }
 
     void others(const std::vector<std::size_t>& devices) {

@@ -18,11 +18,25 @@
 
 namespace mirrorcheck {
 
+// Where an impedance is measured: a node, driven by 1 A injected into it; or, when a
+// voltage source of the circuit holds the node (its probe), through that source: its
+// voltage set to 1 so that the node rises by 1 V, and Z = 1 / (the current it then
+// delivers into the node).
+struct Port {
+    long node = -1;        // unknown index of the net's voltage
+    long branch = -1;      // the probe source's branch current, or -1
+    double sign = 1.0;     // +1 when the node is the source's + terminal, -1 when its -
+    std::string source;    // the probe source's name, when branch >= 0
+};
+
 class SmallSignalNetwork {
 public:
     // Unknown index of a net's voltage, or -1 for ground, a net held at AC ground, or a net
     // the network does not have.
     long node(std::string_view net) const;
+    // The port at a net (node -1 when the network does not have the net).
+    Port port(std::string_view net) const;
+    void set_probe(const std::string& net, long branch, double sign, const std::string& source);
     long node_count() const { return node_count_; }
     long size() const { return node_count_ + branch_count_; }
 
@@ -33,7 +47,7 @@ public:
 
     // Why the network cannot be used (each names the device and what it lacks); empty when it can.
     std::vector<std::string> problems;
-    // Assumptions that hold at every frequency ("probe vout removed", "diode d1 left out ...").
+    // Assumptions that hold at every frequency ("diode d1 left out ...").
     std::vector<std::string> notes;
     // What the frequency-dependent part leaves out, one entry per device or kind of element
     // ("m1: cgs, cgd not in the op data"); empty when every capacitance was stamped.
@@ -54,14 +68,16 @@ public:
 
 private:
     std::unordered_map<std::string, long> node_index_;
+    std::unordered_map<std::string, Port> probes_;
     long node_count_ = 0;
     long branch_count_ = 0;
     std::vector<Eigen::Triplet<double>> g_;
     std::vector<Eigen::Triplet<double>> c_;
 };
 
-// The whole circuit. Every independent voltage source touching a net of `probed` (lower
-// case) is left out: it is the probe that holds that node in the deck.
+// The whole circuit. An independent voltage source touching a net of `probed` (lower case)
+// is that net's probe: the net's impedance is measured through it, with every other probe
+// in place, holding its own net as the deck does (what `.tf` of each probe reports).
 SmallSignalNetwork build_circuit_network(const Circuit& circuit, const OpPoint& op, const std::set<std::string>& probed);
 
 // Only `devices` (indices into circuit.devices()), seen from `target`: the target net and

@@ -149,7 +149,7 @@ double relative(double linearised, double simulated) { return linearised / simul
 // The linearised value against `.tf` and AC, each within the tolerance.
 void check_agreement(const LinearisedImpedance& lin, const Simulated& sim, const std::string& source) {
     REQUIRE_MESSAGE(lin.resistance, lin.note);
-    CHECK(lin.note.find("probe") != std::string::npos);
+    CHECK(lin.note.find("held by") != std::string::npos);
     CHECK(lin.note.find(source) != std::string::npos);
     double r = *lin.resistance;
     MESSAGE(lin.node << ": linearised " << r << " ohm; ngspice .tf " << sim.tf << " (" << relative(r, sim.tf)
@@ -378,15 +378,14 @@ TEST_CASE("two outputs asked at once, each held by its own probe: outputs that d
     Deck deck = simulate(std::string(level1n) + two_separate_outputs, two_probes, {"m1", "m2", "m3", "m4"}, {});
     auto r = compute_linearised_impedances(deck.circuit, deck.op, {"out1", "out2"});
     REQUIRE(r.size() == 2);
-    // One matrix for both, with both probes removed: out2 floats while out1 is solved, and
-    // the other way round; here that changes nothing.
-    CHECK(r[0].note.find("probe vout1, vout2 removed") != std::string::npos);
+    // One matrix for both: each output measured through its probe, the other held by its own.
+    CHECK(r[0].note.find("held by vout1") != std::string::npos);
     check_agreement(r[0], deck.probes.at("vout1"), "vout1");
     check_agreement(r[1], deck.probes.at("vout2"), "vout2");
 }
 
 TEST_CASE("two coupled outputs asked one at a time match each one's own .tf") {
-    // Asked alone, only the probe on the asked node is removed: the other probe stays a
+    // Asked alone, the asked output is measured through its probe and the other probe stays a
     // short, as it is in ngspice's .tf of the asked probe.
     Deck deck = simulate(std::string(level1n) + two_coupled_outputs, two_probes, {"m1", "m2", "m3"}, {});
     for (const Probe& p : two_probes) {
@@ -397,15 +396,11 @@ TEST_CASE("two coupled outputs asked one at a time match each one's own .tf") {
     }
 }
 
-TEST_CASE("two coupled outputs asked at once: each is what ngspice sees with the other output floating") {
-    // compute_linearised_impedances removes every probe touching any asked node from its
-    // one matrix (linearise.cpp, "Assumptions"), so while out1 is solved out2 is held by
-    // nothing but the circuit. The ngspice counterpart: the same deck with the other probe
-    // replaced by a current source drawing its op current, which keeps the op point and
-    // lets that output float.
+TEST_CASE("two coupled outputs, one held and one floating: the floating one is not held") {
+    // The same deck with the other probe replaced by a current source drawing its op
+    // current, which keeps the op point and lets that output float: asked together, the
+    // held output is measured with the other floating, as ngspice's .tf of its probe sees it.
     Deck held = simulate(std::string(level1n) + two_coupled_outputs, two_probes, {"m1", "m2", "m3"}, {});
-    auto r = compute_linearised_impedances(held.circuit, held.op, {"out1", "out2"});
-    REQUIRE(r.size() == 2);
     for (std::size_t k = 0; k < 2; ++k) {
         const Probe& asked = two_probes[k];
         const Probe& other = two_probes[1 - k];
@@ -416,18 +411,18 @@ TEST_CASE("two coupled outputs asked at once: each is what ngspice sees with the
         auto v_other = floating.op.voltage(other.node);
         REQUIRE(v_other);
         CHECK(*v_other == doctest::Approx(*other.dc).epsilon(1e-6));  // the same op point
-        check_agreement(r[k], floating.probes.at(asked.source), asked.source);
+        auto r = compute_linearised_impedances(floating.circuit, floating.op, {asked.node, other.node});
+        REQUIRE(r.size() == 2);
+        check_agreement(r[0], floating.probes.at(asked.source), asked.source);
         // How far this is from the value with the other output held (its own .tf).
         MESSAGE(asked.node << " with " << other.node << " held (.tf): " << held.probes.at(asked.source).tf
                            << " ohm; floating: " << floating.probes.at(asked.source).tf << " ohm");
     }
 }
 
-// Known gap, kept as a record: asked together, coupled outputs do not match each one's
-// own .tf, because the pass floats the other output (see the case above) where `.tf` of
-// one probe keeps the other probe as a short. Expected to fail until the pass solves each
-// asked node with the other probes kept.
-TEST_CASE("two coupled outputs asked at once match each one's own .tf" * doctest::may_fail()) {
+// Asked together, coupled outputs match each one's own .tf: each is measured through its
+// probe with the other probe still holding its output (linearise.cpp, "Assumptions").
+TEST_CASE("two coupled outputs asked at once match each one's own .tf") {
     Deck deck = simulate(std::string(level1n) + two_coupled_outputs, two_probes, {"m1", "m2", "m3"}, {});
     auto r = compute_linearised_impedances(deck.circuit, deck.op, {"out1", "out2"});
     REQUIRE(r.size() == 2);

@@ -54,7 +54,7 @@ Compared compare(const std::string& circuit, const std::vector<std::string>& mos
     auto r = compute_linearised_impedances(c, op, {node});
     REQUIRE(r.size() == 1);
     REQUIRE_MESSAGE(r[0].resistance, r[0].note);
-    CHECK(r[0].note.find("probe vout removed") != std::string::npos);
+    CHECK(r[0].note.find("held by vout") != std::string::npos);
     Compared out{file.plots[1].real[*z][0], *r[0].resistance};
     MESSAGE("ngspice " << out.simulated << " ohm, linearised " << out.linearised << " ohm, relative difference "
                        << out.linearised / out.simulated - 1);

@@ -1,5 +1,5 @@
 // The linearised impedance on small networks whose value is known by hand: resistors only,
-// a probe source removed, a held node, a floating node, and a degenerated MOS device whose
+// a node measured through its probe source with another held, a floating node, and a degenerated MOS device whose
 // output resistance ro + (1 + (gm + gmb)·ro)·Rs is textbook. Against frequency: first-order
 // networks (R parallel C, R in series with L, a transistor's output conductance with the
 // capacitances at its output node), whose |Z|, phase and corner 1/(2·pi·R·C) are the
@@ -75,7 +75,7 @@ DeviceOp mos_op(const std::string& name, Polarity p, double gm, double gmb, doub
 
 }  // namespace
 
-TEST_CASE("resistors: 1k to ground in parallel with 2k + 3k; the probe source is removed") {
+TEST_CASE("resistors: a held by its probe vout, b beside it: each measured with the other held") {
     Circuit c;
     c.add_device(two_terminal(DeviceKind::resistor, "r1", "a", "0", 1e3));
     c.add_device(two_terminal(DeviceKind::resistor, "r2", "a", "b", 2e3));
@@ -90,7 +90,7 @@ TEST_CASE("resistors: 1k to ground in parallel with 2k + 3k; the probe source is
     CHECK(r[0].note.find("vout") != std::string::npos);
     REQUIRE(r[1].resistance);
     CHECK(r[1].node == "b");
-    CHECK(*r[1].resistance == doctest::Approx(3e3 * 3e3 / 6e3).epsilon(1e-12));
+    CHECK(*r[1].resistance == doctest::Approx(2e3 * 3e3 / 5e3).epsilon(1e-12));  // a held by vout: r2 || r3
 }
 
 TEST_CASE("a voltage source elsewhere is a short; an inductor too; a resistor's m divides it") {

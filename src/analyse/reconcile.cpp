@@ -153,7 +153,10 @@ std::pair<Severity, std::string> simulation_cause(const Context& c, const Simula
                 fmt::format("{} is in {}, where a small change of bias (the AC run's op against the op file's) "
                             "moves its ro a lot",
                             d->name, to_string(d->region))};
-    (void)lin;
+    if (lin && lin->scope == "mirror devices only")
+        return {Severity::warning,
+                "the linearised value covers only the mirror's own devices (the op data lacks parameters elsewhere), "
+                "while the simulation has the whole circuit: loads and a reference that is not AC ground count there"};
     return {Severity::error,
             "the op data does not describe the simulated circuit: a parameter missing or misread, an operating "
             "point that differs between the op run and the AC run, or a probe on another node than the mirror "
@@ -171,6 +174,10 @@ void reconcile_output(const Context& c, const LinearisedImpedance* lin, const Si
     if (!linearised && lin)
         c.add(Severity::warning, "not-linearised",
               fmt::format("The output at {} was not solved exactly: {}.", c.output.node, lin->note));
+    if (linearised && lin->scope == "mirror devices only")
+        c.add(Severity::info, "not-linearised",
+              fmt::format("The output at {} was solved on the mirror's own devices only, not the whole circuit: {}.",
+                          c.output.node, lin->note));
     if (!simulated && sim && c.options.simulation_given)
         c.add(Severity::warning, "not-simulated", fmt::format("The output at {} is {}.", c.output.node, sim->note));
 

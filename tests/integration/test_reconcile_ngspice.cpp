@@ -175,3 +175,17 @@ TEST_CASE("the table shows all three values with the probe and the agreement") {
     CHECK(r.out.find("held by vout") != std::string::npos);
     CHECK(r.out.find("agreement") != std::string::npos);
 }
+
+TEST_CASE("a circuit the solve cannot take whole: the mirror's own devices, said in a note and a finding") {
+    // a behavioural source elsewhere has no linear model in the solve
+    auto r = review(cascode(1.5, "bx bx 0 v=1.2\nrbx bx 0 10k\n") + control(saves({"m1", "m2", "m3", "m4"})));
+    const json& rout = rout_at(r.report, "out");
+    REQUIRE(rout["linearised"].is_number());
+    CHECK(rout["linearised_scope"] == "mirror devices only");
+    auto f = with_code(r.report, "not-linearised");
+    REQUIRE(f.size() == 1);
+    CHECK(f[0]["severity"] == "info");
+    // the stack alone with its gates at AC ground is what the simulation sees here too
+    CHECK(rout["simulated"].get<double>() == doctest::Approx(rout["linearised"].get<double>()).epsilon(1e-3));
+    CHECK(r.status == 0);
+}

@@ -52,7 +52,8 @@ TEST_CASE("a differential pair holds no mirror") {
     Result r = list("'" + recognise_deck("diff_pair.cir") + "' --format json");
     REQUIRE(r.status == 0);
     std::size_t mirrors = 0;
-    for (const auto& m : nlohmann::json::parse(r.out)["mirrors"])
+    const auto report = nlohmann::json::parse(r.out);  // named: a temporary would die before the loop
+    for (const auto& m : report["mirrors"])
         mirrors += m["family"].get<std::string>().find("stack") == std::string::npos;
     CHECK(mirrors == 0);
 }

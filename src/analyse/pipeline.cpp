@@ -12,7 +12,10 @@ namespace {
 
 std::vector<std::string> transistors_of(const Circuit& circuit, const std::vector<Mirror>& mirrors) {
     std::vector<std::string> names;
-    auto add = [&](std::size_t i) { names.push_back(circuit.devices()[i].name); };
+    auto add = [&](std::size_t i) {  // a reference shared by two mirrors is listed once
+        const std::string& name = circuit.devices()[i].name;
+        if (std::find(names.begin(), names.end(), name) == names.end()) names.push_back(name);
+    };
     for (const auto& m : mirrors) {
         for (std::size_t i : m.reference) add(i);
         for (std::size_t i : m.helpers) add(i);

@@ -1,0 +1,165 @@
+// The shipped sample (samples/tamarack/): what a newcomer sees first must not drift.
+//
+// 1. `mirrorcheck review` on the shipped netlist and results prints exactly the expected
+//    report kept beside them (samples/tamarack/expected/: the table and the JSON), and
+//    exits 1 because the sample's cascode tail has too little headroom. No ngspice needed.
+//    After a deliberate change, rewrite the expected files and review the diff:
+//        MIRRORCHECK_ACCEPT=1 ctest --test-dir build -R test_samples
+// 2. regenerate.sh, run into a temporary folder, gives the same numbers as the shipped
+//    results (so they cannot drift from the netlist), and the claims the netlist's
+//    comments make hold by ngspice's own numbers.
+#include <cmath>
+#include <cstdlib>
+#include <filesystem>
+#include <string>
+
+#include <doctest/doctest.h>
+
+#include "parsers/raw/raw.hpp"
+#include "support/ngspice_run.hpp"
+#include "support/run_cli.hpp"
+
+namespace {
+
+namespace fs = std::filesystem;
+using mirrorcheck::test::read_text;
+
+const fs::path source_dir = MIRRORCHECK_SOURCE_DIR;
+const fs::path sample = source_dir / "samples" / "tamarack";
+const std::string review_args = "review samples/tamarack/bias.cir --op samples/tamarack/bias_op.raw";
+
+// The only thing a report may differ in between machines: the project's absolute path.
+std::string without_source_dir(std::string text) {
+    const std::string dir = source_dir.string();
+    for (std::size_t at = text.find(dir); at != std::string::npos; at = text.find(dir, at))
+        text.replace(at, dir.size(), "<source>");
+    return text;
+}
+
+// Compares with the golden file, or rewrites it when MIRRORCHECK_ACCEPT is set.
+void check_golden(const std::string& actual, const fs::path& golden) {
+    if (std::getenv("MIRRORCHECK_ACCEPT")) {
+        fs::create_directories(golden.parent_path());
+        mirrorcheck::test::write_text(golden, actual);
+    }
+    REQUIRE_MESSAGE(fs::exists(golden), golden.string() << " is missing; run with MIRRORCHECK_ACCEPT=1");
+    CHECK_MESSAGE(actual == read_text(golden),
+                  golden.filename().string() << " differs from the tool's output; if the change is deliberate, run "
+                                                "MIRRORCHECK_ACCEPT=1 ctest -R test_samples and review the diff");
+}
+
+}  // namespace
+
+TEST_CASE("review of the shipped sample: the expected table, exit status 1") {
+    auto r = mirrorcheck::test::run_cli(review_args, source_dir);
+    CHECK_MESSAGE(r.err.empty(), r.err);
+    CHECK(r.status == 1);  // the cascode tail's mn4 is out of saturation: an error finding
+    check_golden(without_source_dir(r.out), sample / "expected" / "review.txt");
+}
+
+TEST_CASE("review of the shipped sample: the expected JSON report") {
+    auto r = mirrorcheck::test::run_cli(review_args + " --format json", source_dir);
+    CHECK_MESSAGE(r.err.empty(), r.err);
+    CHECK(r.status == 1);
+    check_golden(without_source_dir(r.out), sample / "expected" / "review.json");
+}
+
+namespace {
+
+// Equal to 9 significant digits: far finer than anything a report prints, coarse enough
+// for the last bit of a floating-point sum.
+bool same(double a, double b) { return a == b || std::abs(a - b) <= 1e-9 * std::max(std::abs(a), std::abs(b)); }
+
+void check_same_plots(const fs::path& fresh_path, const fs::path& shipped_path) {
+    auto fresh = mirrorcheck::raw::read_raw(fresh_path);
+    auto shipped = mirrorcheck::raw::read_raw(shipped_path);
+    REQUIRE(fresh.plots.size() == shipped.plots.size());
+    for (std::size_t p = 0; p < fresh.plots.size(); ++p) {
+        const auto& f = fresh.plots[p];
+        const auto& s = shipped.plots[p];
+        CAPTURE(p);
+        CAPTURE(f.name);
+        REQUIRE(f.name == s.name);
+        REQUIRE(f.point_count == s.point_count);
+        REQUIRE(f.variables.size() == s.variables.size());
+        for (std::size_t v = 0; v < f.variables.size(); ++v) {
+            CAPTURE(f.variables[v].name);
+            REQUIRE(f.variables[v].name == s.variables[v].name);
+            for (std::size_t k = 0; k < f.point_count; ++k) {
+                if (f.complex) {
+                    CHECK(same(f.cplx[v][k].real(), s.cplx[v][k].real()));
+                    CHECK(same(f.cplx[v][k].imag(), s.cplx[v][k].imag()));
+                } else {
+                    CHECK(same(f.real[v][k], s.real[v][k]));
+                }
+            }
+        }
+    }
+}
+
+double op_value(const mirrorcheck::raw::Plot& op, const std::string& name) {
+    auto i = op.find(name);
+    REQUIRE_MESSAGE(i, name << " is not in the op plot");
+    return op.real[*i][0];
+}
+
+}  // namespace
+
+TEST_CASE("regenerate.sh: fresh ngspice results equal the shipped ones, and the netlist's claims hold") {
+    const fs::path dir = mirrorcheck::test::make_temp_dir("mc-samples");
+    struct Cleanup {
+        fs::path dir;
+        ~Cleanup() {
+            std::error_code ignored;
+            if (!std::getenv("MIRRORCHECK_KEEP_TEST_DIRS")) fs::remove_all(dir, ignored);
+        }
+    } cleanup{dir};
+    const std::string cmd = "bash '" + (sample / "regenerate.sh").string() + "' '" + dir.string() + "' > '" +
+                            (dir / "regenerate.log").string() + "' 2>&1";
+    REQUIRE_MESSAGE(std::system(cmd.c_str()) == 0, read_text(dir / "regenerate.log"));
+
+    SUBCASE("the binary results: op, AC and .tf plots") {
+        check_same_plots(dir / "bias_op.raw", sample / "bias_op.raw");
+    }
+    SUBCASE("the ASCII op") { check_same_plots(dir / "bias_op_ascii.raw", sample / "bias_op_ascii.raw"); }
+    SUBCASE("the show listing, to its printed digits") {
+        CHECK(read_text(dir / "bias_show.txt") == read_text(sample / "bias_show.txt"));
+    }
+    SUBCASE("the claims in bias.cir's comments, by ngspice's own numbers") {
+        auto raw = mirrorcheck::raw::read_raw(dir / "bias_op.raw", mirrorcheck::raw::Selection{{"op"}, false});
+        const auto& op = raw.plots.at(0);
+        REQUIRE(op.kind() == "op");
+        auto margin = [&](const std::string& m) {
+            return op_value(op, "@" + m + "[vds]") - op_value(op, "@" + m + "[vdsat]");
+        };
+        // 1. the standard cascode at 1.1 V: mn4 in triode (Vds 0.247 V, Vdsat 0.334 V), 40 uA
+        CHECK(margin("mn4") < 0);
+        CHECK(op_value(op, "@mn4[vds]") == doctest::Approx(0.247).epsilon(0.01));
+        CHECK(op_value(op, "@mn4[vdsat]") == doctest::Approx(0.334).epsilon(0.01));
+        CHECK(op_value(op, "@mn4[id]") == doctest::Approx(40e-6).epsilon(0.01));
+        // 2, 3. the PMOS gate line at 21.5 uA, the chopper's bias at 21.8 uA
+        CHECK(op_value(op, "@mn5[id]") == doctest::Approx(21.5e-6).epsilon(0.005));
+        CHECK(op_value(op, "@mp2[id]") == doctest::Approx(21.8e-6).epsilon(0.005));
+        // 4. the wide-swing cascode at 0.9 V: every device saturated with more than 100 mV
+        for (const char* m : {"mn7", "mn8", "mn9", "mn11"}) {
+            CAPTURE(m);
+            CHECK(margin(m) > 0.1);
+        }
+        CHECK(op_value(op, "@mn9[vds]") == doctest::Approx(0.39).epsilon(0.01));
+        CHECK(margin("mn11") == doctest::Approx(0.29).epsilon(0.02));
+        CHECK(op_value(op, "@mn11[vbs]") == doctest::Approx(-0.39).epsilon(0.01));  // source above bulk
+        CHECK(op_value(op, "@mn11[id]") == doctest::Approx(20e-6).epsilon(0.001));
+        // 5. the Wilson: mp3 at 1.99 V, mp4 at 0.91 V, 23.3 uA out of a 25 uA reference
+        for (const char* m : {"mp3", "mp4", "mp5"}) CHECK(margin(m) > 0.1);
+        CHECK(op_value(op, "@mp3[vds]") == doctest::Approx(1.99).epsilon(0.005));
+        CHECK(op_value(op, "@mp4[vds]") == doctest::Approx(0.91).epsilon(0.005));
+        CHECK(op_value(op, "@mp5[id]") == doctest::Approx(23.3e-6).epsilon(0.005));
+        // 6, 7, 8. bipolar: forward-active (Vce above 0.2 V), the Widlar's 1.99 uA, the PNP's 15.1 uA
+        for (const char* q : {"q1", "q2", "q3", "q4", "q5", "q6"}) {
+            CAPTURE(q);
+            CHECK(op_value(op, "@" + std::string(q) + "[vbe]") - op_value(op, "@" + std::string(q) + "[vbc]") > 0.2);
+        }
+        CHECK(op_value(op, "@q4[ic]") == doctest::Approx(1.99e-6).epsilon(0.005));
+        CHECK(std::abs(op_value(op, "@q6[ic]")) == doctest::Approx(15.1e-6).epsilon(0.005));
+    }
+}

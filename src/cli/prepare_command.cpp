@@ -45,6 +45,10 @@ ReviewDeck make_deck(const DeckRequest& r, const std::string& raw_name) {
     options.mode = r.mode == "held" ? ProbeMode::held : ProbeMode::injected;
     options.from = quantity("--from", r.from, "Hz");
     options.to = quantity("--to", r.to, "Hz");
+    if (!(options.from > 0) || !(options.to > options.from))
+        throw InputError("usage.bad-quantity", Location("--from"),
+                         fmt::format("the AC sweep must run from a positive frequency up: --from {} --to {}", r.from,
+                                     r.to));
     options.points_per_decade = r.points_per_decade;
     options.raw_name = raw_name;
     Circuit circuit = netlist::read_netlist(r.netlist);

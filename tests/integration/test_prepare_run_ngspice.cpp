@@ -202,6 +202,10 @@ TEST_CASE("prepare writes the deck and says how to run it; the netlist is left a
 TEST_CASE("errors: ngspice missing, a netlist ngspice rejects, a run that ends without results") {
     auto dir = mirrorcheck::test::make_temp_dir("mc-run");
     mirrorcheck::test::write_text(dir / "netlist.cir", mixed_bias);
+    auto backwards = mirrorcheck::test::run_cli("prepare netlist.cir -o d.cir --from 1MHz --to 1Hz", dir);
+    CHECK(backwards.status == 2);
+    CHECK_FALSE(fs::exists(dir / "d.cir"));
+
     auto missing = mirrorcheck::test::run_cli("run netlist.cir --ngspice /nonexistent/ngspice", dir);
     CHECK(missing.status == 2);
     CHECK(missing.err.find("ngspice.missing") != std::string::npos);

@@ -4,16 +4,15 @@
 
 #include <fmt/format.h>
 
-#include "src/analyse/finding.hpp"
 
 namespace mirrorcheck::errors {
 namespace {
 
 constexpr std::string_view line_shape = "expected `SUBJECT CODE REASON`";
 
-std::string known_codes() {
+std::string listed(const std::vector<std::string>& codes) {
     std::string list;
-    for (const auto& c : finding_codes()) list += (list.empty() ? "" : ", ") + std::string(c.code);
+    for (const auto& c : codes) list += (list.empty() ? "" : ", ") + c;
     return list;
 }
 
@@ -33,15 +32,15 @@ InputError waiver_bad_subject(const Location& where, std::string_view subject) {
                         subject)};
 }
 
-InputError waiver_missing_code(const Location& where, std::string_view subject) {
+InputError waiver_missing_code(const Location& where, std::string_view subject, const std::vector<std::string>& known) {
     return {"waiver.missing-code", where,
             fmt::format("the waiver for `{}` ends after its subject; {}, with CODE one of: *, {}", subject,
-                        line_shape, known_codes())};
+                        line_shape, listed(known))};
 }
 
-InputError waiver_unknown_code(const Location& where, std::string_view code) {
+InputError waiver_unknown_code(const Location& where, std::string_view code, const std::vector<std::string>& known) {
     return {"waiver.unknown-code", where,
-            fmt::format("`{}` is not a finding code; expected `*` or one of: {}", code, known_codes())};
+            fmt::format("`{}` is not a finding code; expected `*` or one of: {}", code, listed(known))};
 }
 
 InputError waiver_missing_reason(const Location& where, std::string_view subject, std::string_view code) {

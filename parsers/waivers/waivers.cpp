@@ -3,12 +3,12 @@
 // malformed waiver; then each line is split into its three fields.
 #include "parsers/waivers/waivers.hpp"
 
+#include <algorithm>
 #include <cstddef>
 
 #include "parsers/common/mapped_file.hpp"
 #include "parsers/common/text.hpp"
 #include "parsers/waivers/waiver_errors.hpp"
-#include "src/analyse/finding.hpp"
 
 namespace mirrorcheck::waivers {
 namespace {
@@ -53,7 +53,7 @@ struct LineCursor {
     std::size_t column() const { return pos + 1; }
 };
 
-Waiver parse_line(std::string_view text, const Location& line) {
+Waiver parse_line(std::string_view text, const Location& line, const std::vector<std::string>& known_codes) {
     auto at = [&](std::size_t column) { return Location(line.file, line.line, column); };
     LineCursor cursor{text};
     cursor.at_field();
@@ -63,10 +63,11 @@ Waiver parse_line(std::string_view text, const Location& line) {
     if (subject != "*" && subject.find('*') != std::string_view::npos)
         throw errors::waiver_bad_subject(w.where, subject);
     w.subject = to_lower(subject);
-    if (!cursor.at_field()) throw errors::waiver_missing_code(at(cursor.column()), subject);
+    if (!cursor.at_field()) throw errors::waiver_missing_code(at(cursor.column()), subject, known_codes);
     const std::size_t code_column = cursor.column();
     w.code = to_lower(cursor.take_word());
-    if (w.code != "*" && !find_finding_code(w.code)) throw errors::waiver_unknown_code(at(code_column), w.code);
+    if (w.code != "*" && std::find(known_codes.begin(), known_codes.end(), w.code) == known_codes.end())
+        throw errors::waiver_unknown_code(at(code_column), w.code, known_codes);
     if (!cursor.at_field()) throw errors::waiver_missing_reason(at(cursor.column()), subject, w.code);
     w.reason = std::string(cursor.take_rest());
     return w;
@@ -74,7 +75,7 @@ Waiver parse_line(std::string_view text, const Location& line) {
 
 }  // namespace
 
-Waivers parse_waivers(std::string_view text, const std::string& path) {
+Waivers parse_waivers(std::string_view text, const std::string& path, const std::vector<std::string>& known_codes) {
     if (text.substr(0, utf8_bom.size()) == utf8_bom) text.remove_prefix(utf8_bom.size());
     check_text(text, path);
     Waivers out;
@@ -86,14 +87,14 @@ Waivers parse_waivers(std::string_view text, const std::string& path) {
         ++number;
         if (!line.empty() && line.back() == '\r') line.remove_suffix(1);
         LineCursor probe{line};
-        if (probe.at_field()) out.push_back(parse_line(line, Location(path, number)));
+        if (probe.at_field()) out.push_back(parse_line(line, Location(path, number), known_codes));
     }
     return out;
 }
 
-Waivers read_waivers(const std::filesystem::path& path) {
+Waivers read_waivers(const std::filesystem::path& path, const std::vector<std::string>& known_codes) {
     MappedFile file(path);
-    return parse_waivers(file.bytes(), file.path());
+    return parse_waivers(file.bytes(), file.path(), known_codes);
 }
 
 }  // namespace mirrorcheck::waivers

@@ -6,7 +6,7 @@
 //   *                body-effect        every cascode here has its bulk on the rail
 //
 // SUBJECT is a mirror id, a device name or an output node (any case), or `*` for any;
-// CODE is a code of the finding catalogue (finding_codes()) or `*` for any; REASON is the
+// CODE is one of the known codes the caller passes (the finding catalogue) or `*` for any; REASON is the
 // rest of the line and is required. A `#` where a field would begin starts a comment; a `#`
 // inside the reason is part of it ("see issue #12"). A file with no waiver lines waives nothing.
 #pragma once
@@ -22,7 +22,7 @@ namespace mirrorcheck::waivers {
 
 struct Waiver {
     std::string subject;  // lower case, or "*" for any subject
-    std::string code;     // a code of finding_codes(), or "*" for any code
+    std::string code;     // one of the known codes, or "*" for any code
     std::string reason;   // as written, without surrounding blanks
     Location where;       // the file and line of the waiver
 };
@@ -33,9 +33,11 @@ using Waivers = std::vector<Waiver>;
 // Reads a waiver file; never modifies it. Throws InputError with the file, line and column:
 // "input.cannot-open", "waiver.binary-data", "waiver.bad-subject", "waiver.missing-code",
 // "waiver.unknown-code" (the message lists the known codes) or "waiver.missing-reason".
-Waivers read_waivers(const std::filesystem::path& path);
+// `known_codes` are the finding codes a waiver may name (lower case); the reader does not
+// know them itself, since they belong to the passes.
+Waivers read_waivers(const std::filesystem::path& path, const std::vector<std::string>& known_codes);
 
 // The same on text already in memory; `path` is used in error messages only.
-Waivers parse_waivers(std::string_view text, const std::string& path);
+Waivers parse_waivers(std::string_view text, const std::string& path, const std::vector<std::string>& known_codes);
 
 }  // namespace mirrorcheck::waivers

@@ -54,6 +54,12 @@ const FindingCode* find_finding_code(std::string_view code) {
     return nullptr;
 }
 
+std::vector<std::string> finding_code_names() {
+    std::vector<std::string> names;
+    for (const auto& c : finding_codes()) names.emplace_back(c.code);
+    return names;
+}
+
 Finding make_finding(Severity severity, std::string code, std::string mirror, std::string subject,
                      std::string message) {
     Finding f;

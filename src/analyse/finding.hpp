@@ -33,6 +33,8 @@ struct FindingCode {
 };
 const std::vector<FindingCode>& finding_codes();
 const FindingCode* find_finding_code(std::string_view code);
+// The codes alone, for readers that check names against the catalogue (waiver files).
+std::vector<std::string> finding_code_names();
 
 Finding make_finding(Severity severity, std::string code, std::string mirror, std::string subject,
                      std::string message);

@@ -43,7 +43,7 @@ ReviewSettings review_settings(const ReviewOptions& o) {
     settings.inspect = inspect_options(o);
     settings.tolerance = quantity("--tolerance", o.tolerance, "%");
     for (const auto& path : o.waive) {
-        auto more = waivers::read_waivers(path);
+        auto more = waivers::read_waivers(path, finding_code_names());
         settings.waivers.insert(settings.waivers.end(), more.begin(), more.end());
     }
     if (!o.at.empty()) settings.simulated.at = quantity("--at", o.at, "Hz");

@@ -241,7 +241,8 @@ TEST_CASE("a waived error no longer fails; its reason and unused waivers are in 
     Bench b;
     const std::string reason = "held low only in reset & <standby>, see \"R&D\" note 'B'";
     const waivers::Waivers w = waivers::parse_waivers(
-        "NMOS-Cascode:M4 out-of-saturation " + reason + "\nmp9 cutoff stale line\n", "waivers.txt");
+        "NMOS-Cascode:M4 out-of-saturation " + reason + "\nmp9 cutoff stale line\n", "waivers.txt",
+        finding_code_names());
     apply_waivers(b.review.findings, w);
 
     const json doc = b.junit();

@@ -32,11 +32,11 @@ InputError error_of(Read read) {
 
 InputError parse_error(const std::string& text) {
     CAPTURE(text);
-    return error_of([&] { waivers::parse_waivers(text, "w.txt"); });
+    return error_of([&] { waivers::parse_waivers(text, "w.txt", finding_code_names()); });
 }
 
 InputError read_error(const std::string& name) {
-    return error_of([&] { waivers::read_waivers(fixture(name)); });
+    return error_of([&] { waivers::read_waivers(fixture(name), finding_code_names()); });
 }
 
 void check_error(const std::string& text, const std::string& code, std::size_t line, std::size_t column) {
@@ -60,7 +60,7 @@ waivers::Waiver waiver(const std::string& subject, const std::string& code, cons
 }  // namespace
 
 TEST_CASE("reader: fields, comments, blank lines, tabs, case and trailing blanks") {
-    const waivers::Waivers w = waivers::read_waivers(fixture("accepted.txt"));
+    const waivers::Waivers w = waivers::read_waivers(fixture("accepted.txt"), finding_code_names());
     REQUIRE(w.size() == 4);
     CHECK(w[0].subject == "nmos-cascode:m4");
     CHECK(w[0].code == "out-of-saturation");
@@ -79,9 +79,10 @@ TEST_CASE("reader: fields, comments, blank lines, tabs, case and trailing blanks
 }
 
 TEST_CASE("reader: empty files, comment-only files, CRLF line ends and a byte-order mark") {
-    CHECK(waivers::parse_waivers("", "w.txt").empty());
-    CHECK(waivers::parse_waivers("# nothing waived yet\n\n   \t\n", "w.txt").empty());
-    const auto w = waivers::parse_waivers("\xEF\xBB\xBFm4 cutoff no current needed in standby\r\n* * all\r\n", "w.txt");
+    CHECK(waivers::parse_waivers("", "w.txt", finding_code_names()).empty());
+    CHECK(waivers::parse_waivers("# nothing waived yet\n\n   \t\n", "w.txt", finding_code_names()).empty());
+    const auto w = waivers::parse_waivers("\xEF\xBB\xBFm4 cutoff no current needed in standby\r\n* * all\r\n", "w.txt",
+                                          finding_code_names());
     REQUIRE(w.size() == 2);
     CHECK(w[0].subject == "m4");
     CHECK(w[0].reason == "no current needed in standby");
@@ -125,7 +126,7 @@ TEST_CASE("reader: the input file is not modified") {
     const std::string text = "M4 Cutoff  reason with trailing blanks   \r\n";
     test::write_text(dir / "w.txt", text);
     const auto before = std::filesystem::last_write_time(dir / "w.txt");
-    CHECK(waivers::read_waivers(dir / "w.txt").size() == 1);
+    CHECK(waivers::read_waivers(dir / "w.txt", finding_code_names()).size() == 1);
     CHECK(test::read_text(dir / "w.txt") == text);
     CHECK(std::filesystem::last_write_time(dir / "w.txt") == before);
     std::filesystem::remove_all(dir);

@@ -28,7 +28,6 @@
 // OTHER outputs do during a run (held at AC ground, or left as they are).
 #include "src/deck/review_deck.hpp"
 
-#include <fstream>
 #include <set>
 
 #include <fmt/format.h>
@@ -48,13 +47,6 @@ bool reads_as_element(const std::string& line) {
     if (i == std::string::npos) return false;
     char c = line[i];
     return c != '*' && c != '.' && c != '#' && c != ';' && c != '$';
-}
-
-std::string first_line(const std::filesystem::path& path) {
-    std::ifstream in(path);
-    std::string line;
-    std::getline(in, line);
-    return line;
 }
 
 std::string quoted_path(const std::filesystem::path& p) {
@@ -86,7 +78,7 @@ std::string unique_name(const Circuit& circuit, const std::string& wanted) {
 ReviewDeck write_review_deck(const std::filesystem::path& netlist, const Circuit& circuit,
                              const std::vector<Mirror>& mirrors, const DeckOptions& options) {
     const std::filesystem::path absolute = std::filesystem::absolute(netlist).lexically_normal();
-    if (const std::string line = first_line(absolute); reads_as_element(line))
+    if (const std::string& line = circuit.title; reads_as_element(line))
         throw InputError("prepare.title-line", Location(netlist.string(), 1, 1),
                          fmt::format("the first line `{}` is the deck's title; included into another deck, ngspice "
                                      "would read it as an element. Start it with `*` (a comment) so the netlist can "

@@ -202,6 +202,13 @@ TEST_CASE("prepare writes the deck and says how to run it; the netlist is left a
 TEST_CASE("errors: ngspice missing, a netlist ngspice rejects, a run that ends without results") {
     auto dir = mirrorcheck::test::make_temp_dir("mc-run");
     mirrorcheck::test::write_text(dir / "netlist.cir", mixed_bias);
+    // ngspice reads an included file's first line as an element unless it is a comment
+    mirrorcheck::test::write_text(dir / "titled.cir", std::string("bias block\n") + mixed_bias);
+    auto titled = mirrorcheck::test::run_cli("prepare titled.cir -o t.cir", dir);
+    CHECK(titled.status == 2);
+    CHECK(titled.err.find("titled.cir:1:1") != std::string::npos);
+    CHECK(titled.err.find("prepare.title-line") != std::string::npos);
+
     auto backwards = mirrorcheck::test::run_cli("prepare netlist.cir -o d.cir --from 1MHz --to 1Hz", dir);
     CHECK(backwards.status == 2);
     CHECK_FALSE(fs::exists(dir / "d.cir"));

@@ -60,9 +60,7 @@ constexpr double weak_inversion_current = 100e-12;  // amperes
 constexpr double weak_saturation = 4.0;             // thermal voltages of vds
 constexpr double bjt_cutoff_vbe = 0.4;
 constexpr double bjt_forward_vbc = 0.4;
-// mu = gm·ro below 10: the "1 +" terms the hand formulas drop are 10 % or more (common
-// practice, no source); body effect worth more than 10 % of Rout is reported (issue 4).
-constexpr double low_intrinsic_gain = 10.0;
+// Body effect worth more than 10 % of Rout is reported (common practice, no source).
 constexpr double body_effect_share = 0.10;
 
 double need(const DeviceOp& op, std::string_view q) {

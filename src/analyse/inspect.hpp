@@ -17,6 +17,10 @@
 
 namespace mirrorcheck {
 
+// mu = gm·ro below this: the "1 +" terms the hand formulas drop are 10 % or more, so the
+// formula is weak (common practice, no source). Also read by the reconciliation.
+inline constexpr double low_intrinsic_gain = 10.0;
+
 // Thresholds of the pass. Both voltages are common practice, no source.
 struct InspectOptions {
     double margin = 0.1;            // volts: a saturation margin below this is a warning

@@ -124,7 +124,7 @@ std::pair<Severity, std::string> formula_cause(const Context& c, const Resistanc
         return {Severity::warning, fmt::format("the {} formula is an approximation ({})", best.method, best.note)};
     for (std::size_t k = 1; k < c.oi.levels.size(); ++k) {
         const RoutLevel& l = c.oi.levels[k];
-        if (l.gm * l.ro < 10)
+        if (l.gm * l.ro < low_intrinsic_gain)
             return {Severity::warning,
                     fmt::format("{} has an intrinsic gain gm·ro of only {:.3g}, where the formula's neglected terms "
                                 "matter",

@@ -216,10 +216,8 @@ void read_ac(const SimulationPlot& plot, const Probe& p, const std::string& node
 }
 
 bool voltage_source_on(const Circuit& circuit, const std::string& node) {
-    const Net* net = circuit.find_net(node);
-    if (!net) return false;
-    for (const TerminalRef& t : net->terminals)
-        if (circuit.devices()[t.device].kind == DeviceKind::vsource) return true;
+    for (const Probe& p : sources_on(circuit, node))
+        if (p.device->kind == DeviceKind::vsource && !p.coupling) return true;
     return false;
 }
 

@@ -24,23 +24,34 @@ std::pair<double, std::size_t> prefix(std::string_view rest) {
     return {1.0, 0};
 }
 
-}  // namespace
-
-std::optional<double> parse_quantity(std::string_view text, std::string_view unit) {
+// The number at the start of `text` and what follows it, trimmed.
+std::optional<std::pair<double, std::string_view>> number_and_rest(std::string_view text) {
     text = trim(text);
     double value = 0;
     auto [end, ec] = std::from_chars(text.data(), text.data() + text.size(), value);
     if (ec != std::errc{}) return std::nullopt;
-    std::string_view rest = trim(text.substr(static_cast<std::size_t>(end - text.data())));
-    if (unit == "%") {
-        if (rest == "%") return value / 100.0;
-        return rest.empty() ? std::optional<double>(value) : std::nullopt;
-    }
-    if (rest.empty() || iequals(rest, unit)) return value;
+    return std::pair{value, trim(text.substr(static_cast<std::size_t>(end - text.data())))};
+}
+
+}  // namespace
+
+std::optional<double> parse_quantity(std::string_view text, std::string_view unit) {
+    auto read = number_and_rest(text);
+    if (!read) return std::nullopt;
+    auto [value, rest] = *read;
+    if (unit == "%") return rest == "%" ? std::optional<double>(value / 100.0) : std::nullopt;
+    if (iequals(rest, unit)) return value;
     auto [scale, length] = prefix(rest);
     rest.remove_prefix(length);
-    if (length == 0 || !(rest.empty() || iequals(rest, unit))) return std::nullopt;
+    if (length == 0 || !iequals(rest, unit)) return std::nullopt;
     return value * scale;
+}
+
+bool lacks_unit(std::string_view text) {
+    auto read = number_and_rest(text);
+    if (!read) return false;
+    auto [scale, length] = prefix(read->second);
+    return read->second.size() == length;
 }
 
 }  // namespace mirrorcheck

@@ -23,4 +23,21 @@ std::string format_si(double value, std::string_view unit) {
     return fmt::format("{:.3g} {}{}", scaled, prefixes[exponent + 5], unit);
 }
 
+std::string format_plain(double value, int digits) {
+    if (!std::isfinite(value)) return fmt::format("{}", value);
+    if (value == 0.0) return "0";
+    const int exponent = static_cast<int>(std::floor(std::log10(std::fabs(value))));
+    if (exponent >= digits) {
+        const double unit = std::pow(10.0, exponent - digits + 1);
+        return fmt::format("{:.0f}", std::round(value / unit) * unit);
+    }
+    return fmt::format("{:.{}g}", value, digits);
+}
+
+std::string format_percent(double fraction) {
+    const double percent = 100.0 * fraction;
+    if (std::isfinite(percent) && std::fabs(percent) >= 99.95) return fmt::format("{:.0f} %", percent);
+    return fmt::format("{:.3g} %", percent);
+}
+
 }  // namespace mirrorcheck

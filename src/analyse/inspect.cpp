@@ -40,9 +40,8 @@
 #include <algorithm>
 #include <cmath>
 
-#include <fmt/format.h>
-
 #include "parsers/common/input_error.hpp"
+#include "src/model/op_point_errors.hpp"
 #include "src/analyse/inspect_rout.hpp"
 #include "src/model/op_point_build.hpp"
 
@@ -65,10 +64,7 @@ constexpr double body_effect_share = 0.10;
 
 double need(const DeviceOp& op, std::string_view q) {
     if (auto v = op.get(q)) return *v;
-    throw InputError("op.missing-parameters", Location(),
-                     fmt::format("the operating point has no {} for {}: add `save @{}[...]` lines for it or read a "
-                                 "`show all` listing",
-                                 q, op.name, op.name));
+    throw errors::op_missing_parameters(op.origin, {{op.name, {std::string(q)}, {std::string(q)}, {}}});
 }
 
 DeviceRegion classify_mos(const DeviceOp& op, const InspectOptions& options) {
@@ -109,10 +105,7 @@ DeviceRegion classify_bjt(const DeviceOp& op, const InspectOptions& options) {
 
 const DeviceOp& device_op(const OpPoint& op, const Device& d) {
     if (const DeviceOp* o = op.device(d.name)) return *o;
-    throw InputError("op.missing-parameters", Location(op.origin),
-                     fmt::format("the operating point has no values for {}: save its parameters with `save @{}[...]` "
-                                 "lines or read a `show all` listing",
-                                 d.name, d.name));
+    throw errors::op_missing_parameters(op.origin, {{d.name, {"every quantity"}, {}, {}}});
 }
 
 std::vector<DeviceRegion> classify_all(const Circuit& circuit, const OpPoint& op,
@@ -229,53 +222,57 @@ OutputInspection inspect_output(const Circuit& circuit, const OpPoint& op, const
 
 // Findings -----------------------------------------------------------------------------
 
+Finding device_finding(FindingCode code, const std::string& mirror, const std::string& device,
+                       std::vector<FindingValue> values) {
+    values.insert(values.begin(), FindingValue::names("device", {device}));
+    Finding f = make_finding(code, mirror, device, std::move(values));
+    f.subject_is_device = true;
+    return f;
+}
+
 void region_findings(const std::string& mirror, const std::vector<DeviceRegion>& devices, const InspectOptions& options,
                      std::vector<Finding>& out) {
+    using V = FindingValue;
     for (const DeviceRegion& d : devices) {
         if (d.region == Region::cutoff) {
-            out.push_back(make_finding(Severity::error, "cutoff", mirror, d.name,
-                           fmt::format("{} is cut off, so it carries no mirrored current and every formula above it is "
-                                       "wrong.",
-                                       d.name)));
+            out.push_back(device_finding(FindingCode::cutoff, mirror, d.name, {}));
         } else if (!d.current_source) {
-            out.push_back(make_finding(Severity::error, "out-of-saturation", mirror, d.name,
-                           fmt::format("{} is in {} ({:.3g} V below its saturation voltage of {:.3g} V), so its ro "
-                                       "collapses and every formula above it is wrong.",
-                                       d.name, to_string(d.region), -d.headroom, d.saturation_voltage)));
+            out.push_back(device_finding(FindingCode::out_of_saturation, mirror, d.name,
+                                         {V::words("region", std::string(to_string(d.region))),
+                                          V::of("shortfall", -d.headroom, Unit::volt),
+                                          V::of("saturation_voltage", d.saturation_voltage, Unit::volt)}));
         } else if (d.low_margin) {
-            out.push_back(make_finding(Severity::warning, "low-margin", mirror, d.name,
-                           fmt::format("{} is saturated by only {:.0f} mV, less than the {:.0f} mV margin asked for.",
-                                       d.name, d.headroom * 1e3, options.margin * 1e3)));
+            out.push_back(device_finding(FindingCode::low_margin, mirror, d.name,
+                                         {V::of("margin", d.headroom, Unit::volt),
+                                          V::of("margin_asked", options.margin, Unit::volt)}));
         }
     }
 }
 
 void output_findings(const std::string& mirror, const OutputInspection& o, const InspectOptions& options,
                      std::vector<Finding>& out) {
+    using V = FindingValue;
     if (o.ratio && o.ratio->error && std::abs(*o.ratio->error) > options.ratio_tolerance) {
-        const std::string predicted =
-            o.ratio->predicted
-                ? fmt::format("; the operating point predicts {:.4g} ({})", *o.ratio->predicted, o.ratio->basis)
-                : std::string();
-        out.push_back(make_finding(Severity::warning, "ratio-error", mirror, o.node,
-                       fmt::format("The output at {} carries {:.4g} times the reference current against a design ratio "
-                                   "of {:.4g}{}.",
-                                   o.node, o.ratio->measured, *o.ratio->design, predicted)));
+        std::vector<FindingValue> values = {V::words("node", o.node), V::of("measured", o.ratio->measured, Unit::none),
+                                            V::of("design", *o.ratio->design, Unit::none),
+                                            V::of("error", std::abs(*o.ratio->error), Unit::percent),
+                                            V::words("basis", o.ratio->basis)};
+        if (o.ratio->predicted) values.push_back(V::of("predicted", *o.ratio->predicted, Unit::none));
+        out.push_back(make_finding(FindingCode::ratio_error, mirror, o.node, std::move(values)));
     }
     for (std::size_t k = 1; k < o.levels.size(); ++k) {
         const double mu = o.levels[k].gm * o.levels[k].ro;
         if (mu < low_intrinsic_gain)
-            out.push_back(make_finding(Severity::info, "low-intrinsic-gain", mirror, o.levels[k].name,
-                           fmt::format("{} has an intrinsic gain gm·ro of only {:.3g}, so the hand formula's "
-                                       "approximations are weak at {}.",
-                                       o.levels[k].name, mu, o.node)));
+            out.push_back(device_finding(FindingCode::low_intrinsic_gain, mirror, o.levels[k].name,
+                                         {V::of("gain", mu, Unit::none), V::words("node", o.node)}));
     }
     const RoutEstimate& best = o.best();
     if (best.value > 0 && std::abs(best.value - best.value_no_body) / best.value > body_effect_share)
-        out.push_back(make_finding(Severity::info, "body-effect", mirror, o.node,
-                       fmt::format("Body effect changes Rout at {} by {:.0f} %: the sources of its devices sit above "
-                                   "their bulk.",
-                                   o.node, 100.0 * std::abs(best.value - best.value_no_body) / best.value)));
+        out.push_back(make_finding(FindingCode::body_effect, mirror, o.node,
+                                   {V::words("node", o.node),
+                                    V::of("share", std::abs(best.value - best.value_no_body) / best.value, Unit::percent),
+                                    V::of("with_body", best.value, Unit::ohm),
+                                    V::of("without_body", best.value_no_body, Unit::ohm)}));
 }
 
 // Every transistor of the mirrors, so that one error lists all that the op lacks.
@@ -299,8 +296,7 @@ std::vector<Finding> collect_findings(const InspectionResult& result, const Insp
         for (const OutputInspection& o : m.outputs) region_findings(m.mirror, o.devices, options, findings);
         for (const OutputInspection& o : m.outputs) output_findings(m.mirror, o, options, findings);
     }
-    std::stable_sort(findings.begin(), findings.end(),
-                     [](const Finding& a, const Finding& b) { return a.severity < b.severity; });
+    sort_findings(findings);
     return findings;
 }
 
@@ -319,7 +315,7 @@ std::string_view to_string(Region region) {
         case Region::forward_active:
             return "forward-active";
         case Region::bipolar_saturation:
-            return "saturation";
+            return "saturated";
     }
     return "";
 }

@@ -36,6 +36,7 @@
 
 #include "src/analyse/reflection.hpp"
 #include "parsers/common/input_error.hpp"
+#include "src/model/op_point_errors.hpp"
 
 namespace mirrorcheck::inspect_detail {
 
@@ -284,10 +285,7 @@ double quantity(const OpPoint& op, const Device& device, std::string_view name) 
     const DeviceOp* d = op.device(device.name);
     if (d)
         if (auto v = d->get(name)) return *v;
-    throw InputError("op.missing-parameters", Location(op.origin),
-                     fmt::format("the operating point has no {} for {}: add `save @{}[...]` lines for it or read a "
-                                 "`show all` listing",
-                                 name, device.name, device.name));
+    throw errors::op_missing_parameters(op.origin, {{device.name, {std::string(name)}, {std::string(name)}, {}}});
 }
 
 StackRout compute_rout(const Circuit& circuit, const OpPoint& op, const Mirror& mirror, const MirrorOutput& output) {

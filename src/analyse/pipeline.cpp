@@ -2,10 +2,13 @@
 
 #include <algorithm>
 
-#include <fmt/format.h>
-
 #include "src/analyse/apply_waivers.hpp"
+#include "src/analyse/build_review_tree.hpp"
+#include "src/analyse/designer_names.hpp"
+#include "src/analyse/linearise.hpp"
+#include "src/analyse/reconcile.hpp"
 #include "src/model/op_point_build.hpp"
+#include "src/recognise/find_mirrors.hpp"
 
 namespace mirrorcheck {
 namespace {
@@ -74,77 +77,54 @@ std::vector<std::string> assume_missing_gmb_zero(OpPoint& op) {
     return names;
 }
 
-std::string listed(const std::vector<std::string>& names) {
-    std::string s;
-    for (std::size_t k = 0; k < names.size() && k < 6; ++k) s += (k ? ", " : "") + names[k];
-    if (names.size() > 6) s += fmt::format(" and {} more", names.size() - 6);
-    return s;
-}
-
-// Device regions and margins, then currents and gains, then resistances.
-int reading_group(const Finding& f) {
-    if (f.code == "cutoff" || f.code == "out-of-saturation" || f.code == "low-margin" || f.code == "gmb-missing")
-        return 0;
-    if (f.code == "ratio-error" || f.code == "low-intrinsic-gain" || f.code == "body-effect") return 1;
-    return 2;
+ReviewThresholds thresholds_of(const ReviewSettings& s) {
+    ReviewThresholds t;
+    t.margin = s.inspect.margin;
+    t.vce_sat = s.inspect.vce_sat;
+    t.ratio_tolerance = s.inspect.ratio_tolerance;
+    t.tolerance = s.tolerance;
+    t.at = s.simulated.at;
+    t.probes = s.simulated.probes;
+    t.waiver_files = s.waiver_files;
+    t.fail_on = s.fail_on;
+    return t;
 }
 
 }  // namespace
 
-const LinearisedImpedance* Review::linearised_at(const std::string& node) const {
-    for (const auto& l : linearised)
-        if (l.node == to_lower(node)) return &l;
-    return nullptr;
-}
-
-const SimulatedImpedance* Review::simulated_at(const std::string& node) const {
-    for (const auto& s : simulated)
-        if (s.node == to_lower(node)) return &s;
-    return nullptr;
-}
-
-const OutputReconciliation* Review::reconciliation_at(const std::string& mirror, const std::string& node) const {
-    for (const auto& r : reconciliation.outputs)
-        if (r.mirror == mirror && r.node == node) return &r;
-    return nullptr;
-}
-
-Review run_review(const Circuit& circuit, const OpPoint& given_op, const std::vector<SimulationPlot>& plots,
-                  const ReviewSettings& settings) {
-    Review review;
+ReviewTree run_review(const Circuit& circuit, const OpPoint& given_op, const std::vector<SimulationPlot>& plots,
+                      const ReviewSettings& settings, const ReviewInputs& inputs) {
     OpPoint op = given_op;
     const std::vector<std::string> no_gmb = assume_missing_gmb_zero(op);
-    review.mirrors = find_mirrors(circuit);
-    require_transistor_quantities(op, circuit, transistors_of(circuit, review.mirrors));
-    review.inspection = inspect_mirrors(circuit, op, review.mirrors, settings.inspect);
-    const std::vector<std::string> nodes = output_nodes(review.mirrors);
-    review.linearised = compute_linearised_impedances(circuit, op, linearise_targets(review.mirrors), ac_frequencies(plots));
-    review.simulated = find_simulated_impedances(circuit, plots, nodes, settings.simulated);
+    const std::vector<Mirror> mirrors = find_mirrors(circuit);
+    require_transistor_quantities(op, circuit, transistors_of(circuit, mirrors));
+    const InspectionResult inspection = inspect_mirrors(circuit, op, mirrors, settings.inspect);
+    const std::vector<LinearisedImpedance> linearised =
+        compute_linearised_impedances(circuit, op, linearise_targets(mirrors), ac_frequencies(plots));
+    const std::vector<SimulatedImpedance> simulated =
+        find_simulated_impedances(circuit, plots, output_nodes(mirrors), settings.simulated);
+    const ReconcileOptions reconcile{settings.tolerance, !plots.empty(), no_gmb};
+    const Reconciliation reconciliation =
+        reconcile_resistances(circuit, mirrors, inspection, linearised, simulated, reconcile);
 
-    ReconcileOptions reconcile{settings.tolerance, !plots.empty(), no_gmb};
-    review.reconciliation =
-        reconcile_resistances(circuit, review.mirrors, review.inspection, review.linearised, review.simulated, reconcile);
-
-    review.findings = review.inspection.findings;
+    ReviewParts parts{circuit, op, mirrors, inspection, linearised, simulated, reconciliation,
+                      inspection.findings, {}, inputs, thresholds_of(settings), find_designer_names(circuit, mirrors)};
     if (!no_gmb.empty()) {
-        review.assumptions.push_back(fmt::format("gmb taken as 0 for {} (not in the op data)", listed(no_gmb)));
-        review.findings.push_back(make_finding(
-            Severity::warning, "gmb-missing", "", listed(no_gmb),
-            fmt::format("The op data has no gmb for {}, so every resistance here neglects body effect; save "
-                        "@{}[gmbs] (or write the `show all` listing) to include it.",
-                        listed(no_gmb), no_gmb.front())));
+        std::string names;
+        for (std::size_t k = 0; k < no_gmb.size() && k < 6; ++k)
+            names += (k ? ", " : "") + designer_name(parts.names, no_gmb[k]);
+        if (no_gmb.size() > 6) names += " and " + std::to_string(no_gmb.size() - 6) + " more";
+        parts.assumptions.push_back("gmb taken as 0 for " + names + " (not in the op data)");
+        parts.findings.push_back(make_finding(FindingCode::gmb_missing, "", no_gmb.front(),
+                                              {FindingValue::names("devices", no_gmb),
+                                               FindingValue::names("first", {no_gmb.front()})}));
     }
-    review.findings.insert(review.findings.end(), review.reconciliation.findings.begin(),
-                           review.reconciliation.findings.end());
-    apply_waivers(review.findings, settings.waivers);
-    std::stable_sort(review.findings.begin(), review.findings.end(), [](const Finding& a, const Finding& b) {
-        if (reading_group(a) != reading_group(b)) return reading_group(a) < reading_group(b);
-        return a.severity < b.severity;
-    });
-    return review;
+    parts.findings.insert(parts.findings.end(), reconciliation.findings.begin(), reconciliation.findings.end());
+    apply_waivers(parts.findings, settings.waivers, parts.names);
+    return build_review_tree(parts);
 }
 
-Review run_review(const Circuit& circuit, const OpPoint& op, const InspectOptions& options) {
+ReviewTree run_review(const Circuit& circuit, const OpPoint& op, const InspectOptions& options) {
     ReviewSettings settings;
     settings.inspect = options;
     return run_review(circuit, op, {}, settings);

@@ -20,10 +20,7 @@
 #include <algorithm>
 #include <cmath>
 
-#include <fmt/format.h>
-
 #include "parsers/common/text.hpp"
-#include "parsers/common/si_format.hpp"
 
 namespace mirrorcheck {
 namespace {
@@ -31,21 +28,6 @@ namespace {
 // An AC point whose phase exceeds this is not a DC value (tan 10° = 0.18: the reactive part
 // is a fifth of the resistive one). Common practice, no source.
 constexpr double dc_phase_limit_degrees = 10.0;
-
-std::string ohms(double r) { return format_si(r, "Ω"); }
-
-// How a value stands against a reference: "12 % above", "8 % below", "163 times", "1/40 of".
-std::string relation(double difference) {
-    if (difference > 1.0) return fmt::format("{:.3g} times", difference + 1.0);
-    if (difference < -0.5) return fmt::format("1/{:.3g} of", 1.0 / (difference + 1.0));
-    return fmt::format("{:.0f} % {}", 100.0 * std::abs(difference), difference >= 0 ? "above" : "below");
-}
-
-std::string join(const std::vector<std::string>& parts) {
-    std::string s;
-    for (std::size_t k = 0; k < parts.size(); ++k) s += (k == 0 ? "" : k + 1 == parts.size() ? " and " : ", ") + parts[k];
-    return s;
-}
 
 ResistanceComparison compare(std::string pair, double first, double second, double tolerance) {
     ResistanceComparison c{std::move(pair), first, second, 0.0, true};
@@ -97,70 +79,62 @@ struct Context {
     const ReconcileOptions& options;
     std::vector<Finding>& findings;
 
-    void add(Severity severity, const std::string& code, const std::string& message) const {
-        findings.push_back(make_finding(severity, code, mirror.id, output.node, message));
+    void add(FindingCode code, Severity severity, std::vector<FindingValue> values,
+             std::optional<Cause> cause = std::nullopt) const {
+        values.insert(values.begin(), FindingValue::words("node", output.node));
+        Finding f = make_finding(code, severity, mirror.id, output.node, std::move(values));
+        f.cause = std::move(cause);
+        findings.push_back(std::move(f));
     }
 };
 
-// Why inspection and the linearised solve differ, as the end of a sentence.
-std::pair<Severity, std::string> formula_cause(const Context& c, const ResistanceComparison& cmp) {
+using V = FindingValue;
+
+Cause cause(CauseCode code, std::vector<FindingValue> values = {}) { return Cause{code, std::move(values)}; }
+
+// Why inspection and the linearised solve differ.
+Cause formula_cause(const Context& c, const ResistanceComparison& cmp) {
     const RoutEstimate& best = c.oi.best();
-    if (!std::isfinite(cmp.first))
-        return {Severity::warning,
-                "the formula is unbounded because a device reports gds = 0 (no channel-length modulation in its "
-                "model), while the solve is bounded by the rest of the circuit or by gmin; use a model with it"};
+    if (!std::isfinite(cmp.first)) return cause(CauseCode::unbounded_formula);
     if (const DeviceRegion* d = collapsed_device(c.mi, c.oi))
-        return {Severity::warning,
-                fmt::format("{} is in {}, so the small-signal values the formula combines no longer describe a "
-                            "current source; fix its margin first",
-                            d->name, to_string(d->region))};
+        return cause(CauseCode::collapsed_device,
+                     {V::names("device", {d->name}), V::words("region", std::string(to_string(d->region)))});
     if (auto loads = loads_on(c.circuit, c.output); !loads.empty() && cmp.first > cmp.second)
-        return {Severity::warning,
-                fmt::format("the output is loaded: {} also connect{} to {}, and the solve sees {} in parallel with "
-                            "the mirror while the formula does not",
-                            join(loads), loads.size() == 1 ? "s" : "", c.output.node,
-                            loads.size() == 1 ? "it" : "them")};
+        return cause(CauseCode::loaded_output, {V::names("loads", loads), V::words("node", c.output.node)});
     if (!best.exact)
-        return {Severity::warning, fmt::format("the {} formula is an approximation ({})", best.method, best.note)};
+        return cause(CauseCode::approximate_formula, {V::words("method", best.method), V::words("note", best.note)});
     for (std::size_t k = 1; k < c.oi.levels.size(); ++k) {
         const RoutLevel& l = c.oi.levels[k];
         if (l.gm * l.ro < low_intrinsic_gain)
-            return {Severity::warning,
-                    fmt::format("{} has an intrinsic gain gm·ro of only {:.3g}, where the formula's neglected terms "
-                                "matter",
-                                l.name, l.gm * l.ro)};
+            return cause(CauseCode::low_gain_in_stack,
+                         {V::names("device", {l.name}), V::of("gain", l.gm * l.ro, Unit::none)});
     }
-    return {Severity::warning,
-            "a gate or base the formula takes as AC ground is not (a bias fed through a resistor or from a "
-            "high-impedance node), or a device the recognition did not count sits in the path"};
+    return cause(CauseCode::gate_not_ac_ground);
 }
 
-// Why a computed value (inspection or linearised) and the simulated one differ.
-std::pair<Severity, std::string> simulation_cause(const Context& c, const SimulatedValue& sim, double computed,
-                                                  const LinearisedImpedance* lin) {
+// Why a computed value (the linearised one when `lin` is given, else inspection's) and the
+// simulated one differ, with the severity the cause deserves: a benign cause is a warning;
+// none is an error.
+std::pair<Severity, Cause> simulation_cause(const Context& c, const SimulatedValue& sim, double computed,
+                                            const LinearisedImpedance* lin) {
     if (sim.frequency && std::abs(sim.phase_degrees) > dc_phase_limit_degrees)
-        return {Severity::warning,
-                fmt::format("the AC value at {:g} Hz is not a DC value (phase {:.0f}°): capacitances already "
-                            "shunt the output; read the AC plot at a lower frequency (--at)",
-                            *sim.frequency, sim.phase_degrees)};
+        return {Severity::warning, cause(CauseCode::not_dc_value, {V::of("frequency", *sim.frequency, Unit::hertz),
+                                                                   V::of("phase", sim.phase_degrees, Unit::degree)})};
     if (auto names = without_body(c.oi, c.options); !names.empty() && sim.magnitude > computed)
-        return {Severity::warning,
-                fmt::format("body effect is neglected: the op data has no gmb for {} (taken as 0) while the "
-                            "simulator includes it; save @{}[gmbs] to include it",
-                            join(names), names.front())};
+        return {Severity::warning, cause(CauseCode::body_effect_neglected,
+                                         {V::names("devices", names), V::names("first", {names.front()})})};
     if (const DeviceRegion* d = collapsed_device(c.mi, c.oi))
         return {Severity::warning,
-                fmt::format("{} is in {}, where a small change of bias (the AC run's op against the op file's) "
-                            "moves its ro a lot",
-                            d->name, to_string(d->region))};
-    if (lin && lin->scope == "mirror devices only")
-        return {Severity::warning,
-                "the linearised value covers only the mirror's own devices (the op data lacks parameters elsewhere), "
-                "while the simulation has the whole circuit: loads and a reference that is not AC ground count there"};
-    return {Severity::error,
-            "the op data does not describe the simulated circuit: a parameter missing or misread, an operating "
-            "point that differs between the op run and the AC run, or a probe on another node than the mirror "
-            "output"};
+                cause(CauseCode::collapsed_device,
+                      {V::names("device", {d->name}), V::words("region", std::string(to_string(d->region)))})};
+    if (lin && lin->scope == "mirror devices only") return {Severity::warning, cause(CauseCode::mirror_devices_only)};
+    // Without a solve the netlist still shows what the formula leaves out: a sky130
+    // mirror whose output also carries a PMOS diode was once blamed on the data.
+    if (!lin)
+        if (auto loads = loads_on(c.circuit, c.output); !loads.empty() && computed > sim.magnitude)
+            return {Severity::warning,
+                    cause(CauseCode::devices_on_output, {V::names("loads", loads), V::words("node", c.output.node)})};
+    return {Severity::error, cause(CauseCode::data_mismatch)};
 }
 
 void reconcile_output(const Context& c, const LinearisedImpedance* lin, const SimulatedImpedance* sim,
@@ -170,51 +144,50 @@ void reconcile_output(const Context& c, const LinearisedImpedance* lin, const Si
     const std::optional<double> inspection = best.value > 0 ? std::optional<double>(best.value) : std::nullopt;
     const std::optional<double> linearised = lin ? lin->resistance : std::nullopt;
     const SimulatedValue* simulated = sim ? sim->best() : nullptr;
+    const FindingValue tolerance = V::of("tolerance", tol, Unit::percent);
 
     if (!linearised && lin)
-        c.add(Severity::warning, "not-linearised",
-              fmt::format("The output at {} was not solved exactly: {}.", c.output.node, lin->note));
+        c.add(FindingCode::not_linearised, Severity::warning,
+              {V::words("how", "not solved exactly"), V::words("note", lin->note)});
     if (linearised && lin->scope == "mirror devices only")
-        c.add(Severity::info, "not-linearised",
-              fmt::format("The output at {} was solved on the mirror's own devices only, not the whole circuit: {}.",
-                          c.output.node, lin->note));
+        c.add(FindingCode::not_linearised, Severity::info,
+              {V::words("how", "solved on the mirror's own devices only, not the whole circuit"),
+               V::words("note", lin->note)});
     if (!simulated && sim && c.options.simulation_given)
-        c.add(Severity::warning, "not-simulated", fmt::format("The output at {} is {}.", c.output.node, sim->note));
+        c.add(FindingCode::not_simulated, Severity::warning, {V::words("note", sim->note)});
 
     if (inspection && linearised) {
         auto cmp = compare("inspection-vs-linearised", *inspection, *linearised, tol);
         out.comparisons.push_back(cmp);
-        if (!cmp.agrees) {
-            auto [severity, cause] = formula_cause(c, cmp);
-            c.add(severity, cmp.pair,
-                  fmt::format("Rout at {} by inspection ({}) is {} the linearised solve's {}, beyond the {:.0f} % "
-                              "tolerance: {}.",
-                              c.output.node, ohms(cmp.first), relation(cmp.difference), ohms(cmp.second), 100 * tol,
-                              cause));
-        }
+        if (!cmp.agrees)
+            c.add(FindingCode::inspection_vs_linearised, Severity::warning,
+                  {V::of("inspection", cmp.first, Unit::ohm), V::of("linearised", cmp.second, Unit::ohm),
+                   V::of("difference", cmp.difference, Unit::relation), tolerance},
+                  formula_cause(c, cmp));
     }
     if (linearised && simulated) {
         auto cmp = compare("linearised-vs-simulated", *linearised, simulated->magnitude, tol);
         out.comparisons.push_back(cmp);
         if (!cmp.agrees) {
-            auto [severity, cause] = simulation_cause(c, *simulated, *linearised, lin);
-            c.add(severity, cmp.pair,
-                  fmt::format("Rout at {} from the linearised solve ({}) is {} the simulated {} ({}): {}.",
-                              c.output.node, ohms(cmp.first), relation(cmp.difference), ohms(cmp.second),
-                              simulated->source, cause));
+            auto [severity, why] = simulation_cause(c, *simulated, *linearised, lin);
+            c.add(FindingCode::linearised_vs_simulated, severity,
+                  {V::of("linearised", cmp.first, Unit::ohm), V::of("simulated", cmp.second, Unit::ohm),
+                   V::of("difference", cmp.difference, Unit::relation), V::words("source", simulated->source),
+                   tolerance},
+                  why);
         }
     }
     if (inspection && simulated) {
         auto cmp = compare("inspection-vs-simulated", *inspection, simulated->magnitude, tol);
         out.comparisons.push_back(cmp);
         if (!cmp.agrees && !linearised) {
-            auto [severity, cause] = simulation_cause(c, *simulated, *inspection, nullptr);
+            auto [severity, why] = simulation_cause(c, *simulated, *inspection, nullptr);
             if (severity == Severity::error) severity = Severity::warning;  // the formula may be the one at fault
-            c.add(severity, cmp.pair,
-                  fmt::format("Rout at {} by inspection ({}) is {} the simulated {} ({}), and no linearised "
-                              "value can tell which is off: {}.",
-                              c.output.node, ohms(cmp.first), relation(cmp.difference), ohms(cmp.second),
-                              simulated->source, cause));
+            c.add(FindingCode::inspection_vs_simulated, severity,
+                  {V::of("inspection", cmp.first, Unit::ohm), V::of("simulated", cmp.second, Unit::ohm),
+                   V::of("difference", cmp.difference, Unit::relation), V::words("source", simulated->source),
+                   tolerance},
+                  why);
         }
     }
 }

@@ -24,7 +24,8 @@
 // plot (`@S[acmag]`) is not zero; without that vector, its netlist `ac` value is not zero;
 // for a voltage source without either, v(N) - v(T) is not zero. This lets one raw file hold one AC run per output,
 // each driving one probe (`alter`), and still pair every output with its own run. The
-// point read is the lowest frequency, or the one nearest `--at`.
+// point read is the lowest frequency, or the one nearest `--at`, which must lie within the
+// sweep (usage.at-outside-sweep otherwise).
 //
 // TF plots (`.tf OUT SRC`): ngspice writes SRC#input_impedance (the impedance seen by the
 // input source), V#output_impedance for a current output i(V), and
@@ -33,12 +34,14 @@
 // source sits on N (otherwise it reads the source's zero impedance).
 #include "src/analyse/simulated_impedance.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <numbers>
 
 #include <fmt/format.h>
 
 #include "parsers/common/input_error.hpp"
+#include "src/analyse/review_errors.hpp"
 #include "parsers/common/text.hpp"
 
 namespace mirrorcheck {
@@ -96,15 +99,10 @@ Probe choose_probe(const Circuit& circuit, const std::string& node, const Simula
     for (const auto& choice : options.probes) {
         if (to_lower(choice.node) != node) continue;
         const Device* d = circuit.find_device(choice.source);
-        if (!d || !is_source(*d))
-            throw InputError("usage.probe", Location("--probe"),
-                             fmt::format("`{}={}`: the netlist has no voltage or current source named {}",
-                                         choice.node, choice.source, choice.source));
+        if (!d || !is_source(*d)) throw errors::probe_not_a_source(choice.node, choice.source);
         for (const Probe& p : on_node)
             if (p.device == d) return p;
-        throw InputError("usage.probe", Location("--probe"),
-                         fmt::format("`{}={}`: {} is not connected to node {} (directly or through one capacitor)",
-                                     choice.node, choice.source, d->name, node));
+        throw errors::probe_not_on_node(choice.node, d->name);
     }
     std::vector<Probe> with_ac, voltage_sources;
     for (const Probe& p : on_node) {
@@ -239,6 +237,16 @@ void read_tf(const Circuit& circuit, const SimulationPlot& plot, const Probe& p,
     }
 }
 
+// --at must lie within every AC plot's sweep: a point read far outside it would be quietly
+// another frequency's value.
+void require_within_sweeps(const std::vector<SimulationPlot>& plots, double at) {
+    for (const auto& plot : plots) {
+        if (plot.kind != "ac" || plot.frequencies.empty()) continue;
+        const auto [lo, hi] = std::minmax_element(plot.frequencies.begin(), plot.frequencies.end());
+        if (!(at >= *lo * (1 - 1e-9) && at <= *hi * (1 + 1e-9))) throw errors::at_outside_sweep(at, plot.origin, *lo, *hi);
+    }
+}
+
 }  // namespace
 
 const Device* netlist_probe(const Circuit& circuit, const std::string& node) {
@@ -249,6 +257,7 @@ std::vector<SimulatedImpedance> find_simulated_impedances(const Circuit& circuit
                                                           const std::vector<SimulationPlot>& plots,
                                                           const std::vector<std::string>& nodes,
                                                           const SimulatedOptions& options) {
+    if (options.at) require_within_sweeps(plots, *options.at);
     std::vector<SimulatedImpedance> out;
     for (const auto& asked : nodes) {
         SimulatedImpedance r;

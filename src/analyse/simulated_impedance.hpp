@@ -45,7 +45,9 @@ struct SimulatedImpedance {
 const Device* netlist_probe(const Circuit& circuit, const std::string& node);
 
 // For each node: its probe and the impedance the plots report through it. Throws
-// InputError "usage.probe" when a ProbeChoice names no source, or a source not on its node.
+// InputError "usage.probe-source" when a ProbeChoice names no source, "usage.probe-node"
+// for a source not on its node, and "usage.at-outside-sweep" when `at` lies outside an AC
+// plot's sweep.
 std::vector<SimulatedImpedance> find_simulated_impedances(const Circuit& circuit,
                                                           const std::vector<SimulationPlot>& plots,
                                                           const std::vector<std::string>& nodes,

@@ -1,39 +1,44 @@
 // mirrorcheck's command line: wires front ends, passes and back ends; no analysis here.
-// Exit status: 0 nothing at error severity, 1 findings at error severity, 2 bad usage or
-// unreadable input.
+// Exit status (exit_status.hpp): 0 nothing at the failing severity, 1 findings at it, 2 bad
+// usage or unreadable input, 3 an internal error.
 #include <iostream>
 
 #include <CLI/CLI.hpp>
 
-#include "parsers/common/input_error.hpp"
+#include "src/analyse/review_tree.hpp"
+#include "src/cli/exit_status.hpp"
 #include "src/cli/list_command.hpp"
 #include "src/cli/peek_command.hpp"
 #include "src/cli/prepare_command.hpp"
 #include "src/cli/review_command.hpp"
 
 int main(int argc, char** argv) {
+    using namespace mirrorcheck::cli;
     CLI::App app{"mirrorcheck: checks the current mirrors of a circuit simulated with ngspice"};
     app.require_subcommand(1);
-    app.set_version_flag("--version", "mirrorcheck 0.1.0");
+    const mirrorcheck::ToolInfo tool = mirrorcheck::this_tool();
+    app.set_version_flag("--version", tool.name + " " + tool.version +
+                                          (tool.revision.empty() ? "" : " (revision " + tool.revision + ")"));
+    app.footer(
+        "Exit status: 0 no unwaived finding at the failing severity (--fail-on, default error),\n"
+        "1 some, 2 bad usage or unreadable input, 3 an internal error (please report it).");
     int status = 0;
-    mirrorcheck::cli::add_list_command(app, status);
-    mirrorcheck::cli::add_peek_command(app, status);
-    mirrorcheck::cli::add_review_command(app, status);
-    mirrorcheck::cli::add_prepare_command(app, status);
-    mirrorcheck::cli::add_run_command(app, status);
-    try {
-        app.parse(argc, argv);
-    } catch (const CLI::Success& e) {
-        return app.exit(e);
-    } catch (const CLI::ParseError& e) {
-        app.exit(e);
-        return 2;
-    } catch (const mirrorcheck::InputError& e) {
-        std::cerr << e.what() << "\n";
-        return 2;
-    } catch (const std::exception& e) {
-        std::cerr << "mirrorcheck: internal error: " << e.what() << " (please report it with the input files)\n";
-        return 2;
-    }
-    return status;
+    add_list_command(app, status);
+    add_peek_command(app, status);
+    add_review_command(app, status);
+    add_prepare_command(app, status);
+    add_run_command(app, status);
+    return run_guarded(
+        [&] {
+            try {
+                app.parse(argc, argv);
+            } catch (const CLI::Success& e) {
+                return app.exit(e);
+            } catch (const CLI::ParseError& e) {
+                app.exit(e);
+                return exit_bad_input;
+            }
+            return status;
+        },
+        std::cerr);
 }

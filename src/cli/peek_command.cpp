@@ -35,7 +35,8 @@ void peek_raw(const PeekOptions& o) {
     raw::RawFile file = raw::read_raw(o.file, selection);
     check_vectors_exist(file, o.vectors);
     if (o.format == "json") std::cout << report::raw_to_json(file, o.vectors).dump(2) << "\n";
-    else std::cout << report::write_raw_table(file, o.vectors);
+    else if (!o.vectors.empty()) std::cout << report::write_raw_vectors(file, o.vectors);
+    else std::cout << report::write_raw_table(file, o.plots);
 }
 
 void peek_listing(const PeekOptions& o) {
@@ -68,18 +69,21 @@ void add_peek_command(CLI::App& app, int& status) {
     CLI::App* cmd = app.add_subcommand("peek", "Show what a raw file, `show` listing or netlist holds");
     cmd->footer(
         "Examples:\n"
-        "  mirrorcheck peek run.raw                       plots, point counts and variables\n"
-        "  mirrorcheck peek run.raw --vector v(out) --vector @m2[gm]\n"
-        "  mirrorcheck peek run.raw --plot ac --format json\n"
+        "  mirrorcheck peek run.raw                       one line per plot: kind, points, variables\n"
+        "  mirrorcheck peek run.raw --plot op             the op plot's variables\n"
+        "  mirrorcheck peek run.raw --plot op --vector @m2[gm]   the value alone, with its unit\n"
+        "  mirrorcheck peek run.raw --plot ac --format json      everything, full precision\n"
         "  mirrorcheck peek show.txt                      devices and their parameters\n"
         "  mirrorcheck peek amp.cir                       the flattened devices, named as ngspice names them");
     cmd->add_option("FILE", options->file, "ngspice raw file (binary or ASCII), `show` listing, or netlist")
         ->required()
         ->check(CLI::ExistingFile);
     cmd->add_option("--vector", options->vectors,
-                    "print this vector's values (ngspice names: v(out), i(vdd), @m1[gm], ...); repeatable");
+                    "print only this vector's values, with unit and SI prefix (ngspice names: v(out), i(vdd), @m1[gm], "
+                    "...); repeatable");
     cmd->add_option("--plot", options->plots,
-                    "read only these plots, by kind (op, ac, tf, dc, tran) or Plotname; repeatable");
+                    "only these plots, by kind (op, ac, tf, dc, tran) or Plotname: their variables, or with --vector "
+                    "their values; repeatable");
     cmd->add_option("--format", options->format, "output format")
         ->check(CLI::IsMember({"table", "json"}));
     cmd->callback([options, &status] { status = run_peek(*options); });

@@ -12,6 +12,7 @@
 #include "parsers/netlist/netlist.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/cli/review_command.hpp"
+#include "src/cli/usage_errors.hpp"
 #include "src/deck/ngspice_runner.hpp"
 #include "src/deck/review_deck.hpp"
 #include "src/recognise/find_mirrors.hpp"
@@ -46,9 +47,7 @@ ReviewDeck make_deck(const DeckRequest& r, const std::string& raw_name) {
     options.from = quantity("--from", r.from, "Hz");
     options.to = quantity("--to", r.to, "Hz");
     if (!(options.from > 0) || !(options.to > options.from))
-        throw InputError("usage.bad-quantity", Location("--from"),
-                         fmt::format("the AC sweep must run from a positive frequency up: --from {} --to {}", r.from,
-                                     r.to));
+        throw usage::sweep_not_upwards(r.from, r.to);
     options.points_per_decade = r.points_per_decade;
     options.raw_name = raw_name;
     Circuit circuit = netlist::read_netlist(r.netlist);
@@ -67,10 +66,10 @@ int run_prepare(const PrepareRequest& r) {
     const std::string raw_name = deck_path.stem().string() + ".raw";
     ReviewDeck deck = make_deck(r.deck, raw_name);
     if (fs::exists(deck_path) && fs::equivalent(deck_path, fs::absolute(r.deck.netlist)))
-        throw InputError("usage.output", Location(r.output), "the deck would overwrite the netlist; choose another -o");
+        throw usage::would_overwrite_netlist(r.output);
     std::ofstream out(deck_path, std::ios::binary);
     out << deck.text;
-    if (!out) throw InputError("usage.output", Location(r.output), "cannot write the deck here");
+    if (!out) throw usage::cannot_write(r.output);
     const fs::path folder = deck_path.parent_path();
     std::cout << fmt::format("wrote {} with {} probe{}:\n", r.output, deck.probes.size(),
                              deck.probes.size() == 1 ? "" : "s");
@@ -97,7 +96,7 @@ struct RunRequest {
 fs::path temporary_folder() {
     std::string pattern = (fs::temp_directory_path() / "mirrorcheck-run-XXXXXX").string();
     if (!mkdtemp(pattern.data()))
-        throw InputError("usage.output", Location(fs::temp_directory_path().string()), "cannot create a temporary folder");
+        throw usage::no_temporary_folder(fs::temp_directory_path().string());
     return pattern;
 }
 

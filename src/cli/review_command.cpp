@@ -13,7 +13,8 @@
 #include "src/model/op_point_build.hpp"
 #include "src/model/simulation_plots_build.hpp"
 #include "parsers/waivers/waivers.hpp"
-#include "src/report/junit_report.hpp"
+#include "src/cli/exit_status.hpp"
+#include "src/cli/terminal.hpp"
 #include "src/report/review_report.hpp"
 
 namespace mirrorcheck::cli {
@@ -45,7 +46,9 @@ ReviewSettings review_settings(const ReviewOptions& o) {
     for (const auto& path : o.waive) {
         auto more = waivers::read_waivers(path, finding_code_names());
         settings.waivers.insert(settings.waivers.end(), more.begin(), more.end());
+        settings.waiver_files.push_back(path);
     }
+    settings.fail_on = parse_severity(o.fail_on).value_or(Severity::error);
     if (!o.at.empty()) settings.simulated.at = quantity("--at", o.at, "Hz");
     for (const auto& p : o.probes) {
         auto eq = p.find('=');
@@ -97,31 +100,30 @@ int review_and_report(const ReviewOptions& o) {
     OpPoint op = read_op(circuit, o.op);
     std::vector<std::string> simulation_files;
     std::vector<SimulationPlot> plots = read_simulation_plots(o, simulation_files);
-    Review review = run_review(circuit, op, plots, settings);
-    report::ReviewInputs inputs{o.netlist, op.origin, simulation_files};
-    if (o.format == "json")
-        std::cout << report::review_to_json(inputs, circuit, op, review)
-                         .dump(2, ' ', false, nlohmann::json::error_handler_t::replace)
-                  << "\n";
-    else if (o.format == "junit") std::cout << report::review_to_junit(inputs, circuit, op, review);
-    else std::cout << report::write_review_table(inputs, circuit, op, review);
-    for (const auto& f : review.findings)
-        if (fails_review(f)) return 1;
-    return 0;
+    const ReviewTree tree = run_review(circuit, op, plots, settings, ReviewInputs{o.netlist, op.origin, simulation_files});
+    const Terminal terminal = stdout_terminal();
+    report::TableStyle style{terminal.width, terminal.colour, o.summary};
+    report::write_review(report::parse_format(o.format).value_or(report::Format::table), tree, std::cout, style);
+    return tree.summary.passed ? exit_passed : exit_findings;
 }
 
-
 void add_judgement_options(CLI::App& cmd, ReviewOptions& o) {
-    cmd.add_option("--margin", o.margin, "saturation margin Vds - Vdsat below which to warn (default 100mV)");
-    cmd.add_option("--vce-sat", o.vce_sat, "bipolar Vce at which saturation begins (default 0.2V)");
+    cmd.add_option("--margin", o.margin, "saturation margin Vds - Vdsat below which to warn, with its unit (default 100mV)");
+    cmd.add_option("--vce-sat", o.vce_sat, "bipolar Vce at which saturation begins, with its unit (default 0.2V)");
     cmd.add_option("--ratio-tolerance", o.ratio_tolerance, "current-ratio error above which to warn (default 5%)");
-    cmd.add_option("--at", o.at, "frequency at which to read AC plots (default: each plot's lowest)");
+    cmd.add_option("--at", o.at,
+                   "frequency at which to read AC plots, within their sweep (default: each plot's lowest), e.g. 10Hz");
     cmd.add_option("--tolerance", o.tolerance,
                    "relative difference above which two resistance values disagree (default 10%)");
     cmd.add_option("--waive", o.waive, "waiver file: lines `SUBJECT CODE REASON` of findings to accept (repeatable)")
         ->check(CLI::ExistingFile);
     cmd.add_option("--format", o.format, "output format: table, json (schema mirrorcheck-report/1) or junit (XML)")
         ->check(CLI::IsMember({"table", "json", "junit"}));
+    cmd.add_option("--fail-on", o.fail_on,
+                   "the severity that fails the review: error (default) or warning; sets the exit status and JUnit's "
+                   "failures")
+        ->check(CLI::IsMember({"error", "warning"}));
+    cmd.add_flag("--summary", o.summary, "table: print the verdict and one row per output only");
 }
 
 void add_review_command(CLI::App& app, int& status) {
@@ -136,12 +138,15 @@ void add_review_command(CLI::App& app, int& status) {
         "disagree by more than --tolerance. The operating point comes from an ngspice raw\n"
         "file (op plot, or an AC plot that repeats the device parameters) or from ngspice's\n"
         "`show all` listing; `mirrorcheck prepare` writes a deck that saves all of it.\n\n"
-        "Exit status: 0 no unwaived finding at error severity, 1 some, 2 bad usage or input.\n\n"
+        "Values take their unit (100mV, 10%, 1kHz); a bare number is refused.\n\n"
+        "Exit status: 0 no unwaived finding at the failing severity (--fail-on, default\n"
+        "error), 1 some, 2 bad usage or input, 3 an internal error.\n\n"
         "Examples:\n"
         "  mirrorcheck review samples/tamarack/bias.cir --op samples/tamarack/bias_op.raw\n"
         "  mirrorcheck review amp.cir --op op.raw --ac probes.raw --probe out=vout --at 10Hz\n"
         "  mirrorcheck review amp.cir --op show.txt --margin 50mV --format json\n"
-        "  mirrorcheck review amp.cir --op op.raw --waive accepted.txt --format junit > review.xml");
+        "  mirrorcheck review amp.cir --op op.raw --waive accepted.txt --format junit > review.xml\n"
+        "  mirrorcheck review amp.cir --op op.raw --summary --fail-on warning");
     cmd->add_option("NETLIST", o->netlist, "ngspice netlist")->required()->check(CLI::ExistingFile);
     cmd->add_option("--op", o->op, "operating point: raw file (binary or ASCII) or `show` listing")
         ->required()

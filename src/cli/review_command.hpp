@@ -21,15 +21,20 @@ struct ReviewOptions {
     std::string at;                   // frequency for AC values
     std::string tolerance = "10%";
     std::vector<std::string> waive;   // waiver files
+    std::string fail_on = "error";    // the severity that fails the review (exit 1, JUnit failures)
+    bool summary = false;             // the table's verdict and summary rows alone
 };
 
-// Reads the inputs, reviews, prints the report; returns 1 when a finding fails the review, else 0.
+// Reads the inputs, reviews, prints the report; returns 1 when a finding fails the review
+// (at --fail-on or worse, not waived), else 0.
 int review_and_report(const ReviewOptions& options);
 
 // The options that judge the circuit and shape the report, shared with `run`.
 void add_judgement_options(CLI::App& cmd, ReviewOptions& options);
 
-// An option value with an SI prefix and unit, or a usage error naming the option.
+// An option value with an SI prefix and its unit, or a usage error naming the option: one
+// for text that is no such value, one for a number without its unit, one for a value below
+// zero.
 double quantity(const std::string& option, const std::string& text, const char* unit);
 
 // Adds the `review` subcommand to the application; its callback sets `status`

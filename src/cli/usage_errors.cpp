@@ -3,10 +3,20 @@
 #include <fmt/format.h>
 
 namespace mirrorcheck::cli::usage {
+namespace {
+
+// How to write a value in `unit`, for the message that refuses one.
+std::string accepted_forms(const std::string& unit) {
+    if (unit == "%") return "10%, 2.5%";
+    if (unit == "Hz") return "10Hz, 1kHz, 2.5MHz";
+    return fmt::format("100m{0}, 0.1{0}", unit);
+}
+
+}  // namespace
 
 InputError missing_vector(const std::string& path, const std::string& name) {
     return {"usage.missing-vector", Location(path),
-            fmt::format("no vector `{}` in the plots read; run `mirrorcheck peek {}` to list the variables "
+            fmt::format("no vector `{}` in the plots read; run `mirrorcheck peek {} --plot KIND` to list the variables "
                         "(device parameters appear only if the deck saves them, e.g. `save @m1[gm]`)",
                         name, path)};
 }
@@ -17,8 +27,19 @@ InputError option_needs_raw(const std::string& path) {
 
 InputError bad_quantity(const std::string& option, const std::string& text, const std::string& unit) {
     return {"usage.bad-quantity", Location(option),
-            fmt::format("`{}` is not a value in {} (examples: {})", text, unit,
-                        unit == "%" ? "5%, 0.05" : "100m" + unit + ", 0.1")};
+            fmt::format("`{}` is not a value in {}; write it with an SI prefix and the unit, e.g. {}", text, unit,
+                        accepted_forms(unit))};
+}
+
+InputError quantity_without_unit(const std::string& option, const std::string& text, const std::string& unit) {
+    return {"usage.missing-unit", Location(option),
+            fmt::format("`{}` has no unit, so it could mean {} things; write it with the unit, e.g. {}", text,
+                        unit == "%" ? "two (a percentage or a fraction)" : "several (SI or SPICE prefixes)",
+                        accepted_forms(unit))};
+}
+
+InputError negative_quantity(const std::string& option, const std::string& text) {
+    return {"usage.negative-value", Location(option), fmt::format("`{}` is below zero; give a value of 0 or more", text)};
 }
 
 InputError no_op_plot(const std::string& path) {
@@ -35,6 +56,23 @@ InputError bad_probe(const std::string& text) {
 InputError no_small_signal_plot(const std::string& path) {
     return {"usage.no-small-signal-plot", Location(path),
             "no AC or transfer-function plot here: expected an ngspice raw file written after `ac` or `tf`"};
+}
+
+InputError sweep_not_upwards(const std::string& from, const std::string& to) {
+    return {"usage.sweep-direction", Location("--from"),
+            fmt::format("the AC sweep must run from a positive frequency up: --from {} --to {}", from, to)};
+}
+
+InputError would_overwrite_netlist(const std::string& output) {
+    return {"usage.output", Location(output), "the deck would overwrite the netlist; choose another -o"};
+}
+
+InputError cannot_write(const std::string& output) {
+    return {"usage.output", Location(output), "cannot write the deck here"};
+}
+
+InputError no_temporary_folder(const std::string& where) {
+    return {"usage.temporary-folder", Location(where), "cannot create a temporary folder"};
 }
 
 }  // namespace mirrorcheck::cli::usage

@@ -9,9 +9,16 @@ namespace mirrorcheck::cli::usage {
 
 InputError missing_vector(const std::string& path, const std::string& name);
 InputError option_needs_raw(const std::string& path);
+// A value that is not a number in `unit`; one without its unit; one below zero.
 InputError bad_quantity(const std::string& option, const std::string& text, const std::string& unit);
+InputError quantity_without_unit(const std::string& option, const std::string& text, const std::string& unit);
+InputError negative_quantity(const std::string& option, const std::string& text);
 InputError no_op_plot(const std::string& path);
 InputError bad_probe(const std::string& text);
 InputError no_small_signal_plot(const std::string& path);
+InputError sweep_not_upwards(const std::string& from, const std::string& to);
+InputError would_overwrite_netlist(const std::string& output);
+InputError cannot_write(const std::string& output);
+InputError no_temporary_folder(const std::string& where);
 
 }  // namespace mirrorcheck::cli::usage

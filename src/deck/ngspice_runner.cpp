@@ -1,5 +1,7 @@
 #include "src/deck/ngspice_runner.hpp"
 
+#include "src/deck/deck_errors.hpp"
+
 #include <cstdlib>
 #include <fstream>
 #include <sstream>
@@ -52,7 +54,7 @@ void run_ngspice_batch(const NgspiceCall& call, const std::string& deck) {
         std::ofstream out(deck_path, std::ios::binary);
         out << deck;
         if (!out)
-            throw InputError("ngspice.failed", Location(deck_path.string()), "cannot write the deck into this folder");
+            throw errors::deck_not_writable(deck_path.string());
     }
     // A path given relative to where mirrorcheck runs must survive the change of folder.
     const std::string executable = call.executable.find('/') == std::string::npos
@@ -64,17 +66,10 @@ void run_ngspice_batch(const NgspiceCall& call, const std::string& deck) {
     const int raw = std::system(command.c_str());
     const int status = raw == -1 ? -1 : WIFEXITED(raw) ? WEXITSTATUS(raw) : 128 + WTERMSIG(raw);
     const std::string log = read_all(log_path);
-    const Location where(log_path.string());
     if (status == 127 || status == 126)
-        throw InputError("ngspice.missing", Location(call.executable),
-                         fmt::format("cannot start `{}`: install ngspice (Debian: apt-get install ngspice) or give its "
-                                     "path with --ngspice{}",
-                                     call.executable, tail(log, 3)));
+        throw errors::ngspice_missing(call.executable, tail(log, 3));
     if (contains(log, "no convergence") || contains(log, "timestep too small") || contains(log, "iteration limit"))
-        throw InputError("ngspice.no-convergence", where,
-                         fmt::format("ngspice did not converge on the operating point; check the netlist's bias, or "
-                                     "help it with .nodeset or .option gmin/itl1. The end of its log:{}",
-                                     tail(log, 12)));
+        throw errors::ngspice_no_convergence(log_path.string(), tail(log, 12));
     if (status != 0 || contains(log, "simulation interrupted due to error"))
         throw ngspice_failure(call, status != 0 ? fmt::format("exited with status {}", status)
                                                 : std::string("stopped on an error"));
@@ -82,9 +77,7 @@ void run_ngspice_batch(const NgspiceCall& call, const std::string& deck) {
 
 InputError ngspice_failure(const NgspiceCall& call, const std::string& what) {
     const auto log_path = call.folder / call.log_name;
-    return InputError("ngspice.failed", Location(log_path.string()),
-                      fmt::format("ngspice {} on {}. The end of its log:{}", what, call.deck_name,
-                                  tail(read_all(log_path), 12)));
+    return errors::ngspice_failed(log_path.string(), what, call.deck_name, tail(read_all(log_path), 12));
 }
 
 }  // namespace mirrorcheck

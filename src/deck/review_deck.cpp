@@ -28,6 +28,8 @@
 // OTHER outputs do during a run (held at AC ground, or left as they are).
 #include "src/deck/review_deck.hpp"
 
+#include "src/deck/deck_errors.hpp"
+
 #include <set>
 
 #include <fmt/format.h>
@@ -79,11 +81,7 @@ ReviewDeck write_review_deck(const std::filesystem::path& netlist, const Circuit
                              const std::vector<Mirror>& mirrors, const DeckOptions& options) {
     const std::filesystem::path absolute = std::filesystem::absolute(netlist).lexically_normal();
     if (const std::string& line = circuit.title; reads_as_element(line))
-        throw InputError("prepare.title-line", Location(netlist.string(), 1, 1),
-                         fmt::format("the first line `{}` is the deck's title; included into another deck, ngspice "
-                                     "would read it as an element. Start it with `*` (a comment) so the netlist can "
-                                     "be included unchanged",
-                                     line));
+        throw errors::title_line(netlist.string(), line);
     ReviewDeck deck;
     std::string& out = deck.text;
     out += fmt::format("* mirrorcheck review deck for {}\n", absolute.filename().string());

@@ -1,10 +1,15 @@
-// Renders a raw file's contents for `peek`. Values are printed in full (shortest text that
-// reads back to the same double), since this view is for checking what a file holds.
+// Renders a raw file's contents for `peek`: a summary by default, variable tables on
+// request, and values with their unit and an SI prefix (JSON keeps every digit).
 #include "src/report/raw_dump.hpp"
 
+#include <algorithm>
 #include <cmath>
+#include <numbers>
 
 #include <fmt/format.h>
+
+#include "parsers/common/si_format.hpp"
+#include "parsers/common/text.hpp"
 
 namespace mirrorcheck::report {
 namespace {
@@ -19,6 +24,49 @@ std::string plural(std::size_t n, std::string_view word) {
     return fmt::format("{} {}{}", n, word, n == 1 ? "" : "s");
 }
 
+// The unit of a raw file's variable type, for people; empty when it has none.
+std::string_view unit_of(const raw::Variable& v) {
+    static const std::pair<std::string_view, std::string_view> units[] = {
+        {"voltage", "V"}, {"current", "A"}, {"admittance", "S"}, {"impedance", "Ω"}, {"frequency", "Hz"},
+        {"time", "s"},    {"capacitance", "F"}, {"inductance", "H"}, {"temperature", "°C"}};
+    for (auto [type, unit] : units)
+        if (v.type == type) return unit;
+    return {};
+}
+
+std::string quantity_text(double x, std::string_view unit) {
+    return unit.empty() ? format_plain(x, 6) : format_si(x, unit);
+}
+
+// "221 variables: 13 voltage, 4 current, 204 admittance".
+std::string variables_by_type(const raw::Plot& plot) {
+    std::vector<std::pair<std::string, std::size_t>> types;
+    for (const auto& v : plot.variables) {
+        auto it = std::find_if(types.begin(), types.end(), [&](const auto& t) { return t.first == v.type; });
+        if (it == types.end()) types.emplace_back(v.type, 1);
+        else ++it->second;
+    }
+    std::string s = plural(plot.variables.size(), "variable");
+    for (std::size_t k = 0; k < types.size(); ++k)
+        s += fmt::format("{}{} {}", k == 0 ? ": " : ", ", types[k].second, types[k].first);
+    return s;
+}
+
+// "from 1 Hz to 1 kHz": the range of the plot's scale, when decoded and longer than a point.
+std::string scale_range(const raw::Plot& plot) {
+    if (!plot.decoded || plot.point_count < 2 || plot.variables.empty()) return {};
+    const std::string_view unit = unit_of(plot.variables[0]);
+    const double first = plot.complex ? plot.cplx[0].front().real() : plot.real[0].front();
+    const double last = plot.complex ? plot.cplx[0].back().real() : plot.real[0].back();
+    return fmt::format(" from {} to {}", quantity_text(first, unit), quantity_text(last, unit));
+}
+
+void write_plot_summary(std::string& out, const raw::Plot& plot, std::size_t number) {
+    fmt::format_to(std::back_inserter(out), "  plot {}: {} [{}], {}, {}{}, {}\n", number, plot.name,
+                   plot.kind().empty() ? "?" : plot.kind(), plot.complex ? "complex" : "real",
+                   plural(plot.point_count, "point"), scale_range(plot), variables_by_type(plot));
+}
+
 void write_plot_header(std::string& out, const raw::Plot& plot, std::size_t number) {
     fmt::format_to(std::back_inserter(out), "plot {}: {} [{}]  flags: {}  {}, {}{}\n", number, plot.name,
                    plot.kind().empty() ? "?" : plot.kind(), join(plot.flags, " "), plural(plot.point_count, "point"),
@@ -31,16 +79,34 @@ void write_plot_header(std::string& out, const raw::Plot& plot, std::size_t numb
     }
 }
 
-void write_vector(std::string& out, const raw::Plot& plot, std::size_t index) {
-    fmt::format_to(std::back_inserter(out), "\n{} in plot `{}` ({}):\n", plot.variables[index].name, plot.name,
-                   plural(plot.point_count, "point"));
+bool selected(const raw::Plot& plot, const std::vector<std::string>& plots) {
+    for (const auto& p : plots)
+        if (iequals(p, plot.kind()) || iequals(p, plot.name)) return true;
+    return false;
+}
+
+std::string complex_text(std::complex<double> z, std::string_view unit) {
+    return fmt::format("{} ∠ {:.3g}°", quantity_text(std::abs(z), unit), std::arg(z) * 180.0 / std::numbers::pi);
+}
+
+void write_vector(std::string& out, const raw::Plot& plot, std::size_t number, std::size_t index,
+                  const std::string& asked) {
+    const raw::Variable& v = plot.variables[index];
+    const std::string_view unit = unit_of(v);
+    auto it = std::back_inserter(out);
+    if (plot.point_count == 1) {
+        const std::string value =
+            plot.complex ? complex_text(plot.cplx[index][0], unit) : quantity_text(plot.real[index][0], unit);
+        fmt::format_to(it, "{} = {}  (plot {}, {})\n", asked, value, number, plot.name);
+        return;
+    }
+    fmt::format_to(it, "{} in plot {}, {} ({}):\n", asked, number, plot.name, plural(plot.point_count, "point"));
+    const std::string_view scale_unit = unit_of(plot.variables[0]);
     for (std::size_t p = 0; p < plot.point_count; ++p) {
-        if (plot.complex) {
-            auto z = plot.cplx[index][p];
-            fmt::format_to(std::back_inserter(out), "  {:>6}  {}  {}\n", p, z.real(), z.imag());
-        } else {
-            fmt::format_to(std::back_inserter(out), "  {:>6}  {}\n", p, plot.real[index][p]);
-        }
+        const double scale = plot.complex ? plot.cplx[0][p].real() : plot.real[0][p];
+        const std::string value =
+            plot.complex ? complex_text(plot.cplx[index][p], unit) : quantity_text(plot.real[index][p], unit);
+        fmt::format_to(it, "  {:>10}  {}\n", quantity_text(scale, scale_unit), value);
     }
 }
 
@@ -60,15 +126,27 @@ nlohmann::json vector_json(const raw::Plot& plot, std::size_t index) {
 
 }  // namespace
 
-std::string write_raw_table(const raw::RawFile& file, const std::vector<std::string>& vectors) {
+std::string write_raw_table(const raw::RawFile& file, const std::vector<std::string>& plots) {
     std::string out = fmt::format("{}: ngspice raw file, {}\n", file.path, plural(file.plots.size(), "plot"));
-    for (std::size_t i = 0; i < file.plots.size(); ++i) {
-        out += "\n";
-        write_plot_header(out, file.plots[i], i + 1);
+    if (plots.empty()) {
+        for (std::size_t i = 0; i < file.plots.size(); ++i) write_plot_summary(out, file.plots[i], i + 1);
+        out += "(`--plot KIND` lists a plot's variables, `--vector NAME` prints a vector's values)\n";
+        return out;
     }
+    for (std::size_t i = 0; i < file.plots.size(); ++i)
+        if (selected(file.plots[i], plots)) {
+            out += "\n";
+            write_plot_header(out, file.plots[i], i + 1);
+        }
+    return out;
+}
+
+std::string write_raw_vectors(const raw::RawFile& file, const std::vector<std::string>& vectors) {
+    std::string out;
     for (const auto& name : vectors)
-        for (const auto& plot : file.plots)
-            if (auto index = plot.find(name); index && plot.decoded) write_vector(out, plot, *index);
+        for (std::size_t i = 0; i < file.plots.size(); ++i)
+            if (auto index = file.plots[i].find(name); index && file.plots[i].decoded)
+                write_vector(out, file.plots[i], i + 1, *index, name);
     return out;
 }
 

@@ -1,28 +1,40 @@
-// Back ends for `review`: the terminal table and the JSON report (DESIGN.md, version 1).
+// Back ends for `review`: the terminal table, JSON (schema mirrorcheck-report/1, kept in
+// docs/report.schema.json) and JUnit XML. Each renders the review tree and nothing else.
 #pragma once
 
+#include <cstddef>
+#include <optional>
+#include <ostream>
 #include <string>
-#include <vector>
+#include <string_view>
 
 #include <nlohmann/json.hpp>
 
-#include "src/analyse/pipeline.hpp"
+#include "src/analyse/review_tree.hpp"
 
 namespace mirrorcheck::report {
 
-struct ReviewInputs {
-    std::string netlist;
-    std::string op_source;  // file and plot (or listing) the operating point came from
-    std::vector<std::string> simulation_files;  // raw files whose AC or .tf plots were read
+using ReviewInputs = mirrorcheck::ReviewInputs;
+
+enum class Format { table, json, junit };
+std::optional<Format> parse_format(std::string_view name);
+
+// How the table is laid out.
+struct TableStyle {
+    std::size_t width = 120;    // lines are wrapped to this many characters
+    bool colour = false;        // ANSI colour on words that already say the same
+    bool summary_only = false;  // the verdict and the summary rows alone
 };
 
-// {"schema": "mirrorcheck-report/1", "inputs", "mirrors", "devices", "findings", "summary"}.
-// `linearised` and `simulated` resistances are null until those passes exist.
-nlohmann::json review_to_json(const ReviewInputs& inputs, const Circuit& circuit, const OpPoint& op,
-                              const Review& review);
+// Writes the review in `format` (the style applies to the table only).
+void write_review(Format format, const ReviewTree& tree, std::ostream& out, const TableStyle& style = {});
 
-// The same for a person: one block per mirror, findings first when there are errors.
-std::string write_review_table(const ReviewInputs& inputs, const Circuit& circuit, const OpPoint& op,
-                               const Review& review);
+// The verdict, one summary row per output, then one block per mirror with each output's
+// values and findings, then what concerns the whole circuit.
+std::string write_review_table(const ReviewTree& tree, const TableStyle& style = {});
+
+// {"schema", "tool", "inputs", "settings", "assumptions", "notes", "mirrors", "devices",
+// "findings", "summary"}: see README.md "JSON for flows" and docs/report.schema.json.
+nlohmann::json review_to_json(const ReviewTree& tree);
 
 }  // namespace mirrorcheck::report

@@ -200,7 +200,7 @@ TEST_CASE("body effect: both values reported, and ngspice sides with the one tha
     CHECK(o.levels[1].gmb == doctest::Approx(t.op_value("@m4[gmbs]")));
     CHECK(std::abs(relative_error(o.reflection.value_no_body, t.rout_ngspice())) > 0.1);
     bool body_finding = false;
-    for (const Finding& f : t.result.findings) body_finding |= f.code == "body-effect" && f.subject == "out";
+    for (const Finding& f : t.result.findings) body_finding |= f.code == FindingCode::body_effect && f.subject == "out";
     CHECK(body_finding);
 }
 
@@ -227,13 +227,13 @@ TEST_CASE("an output forced out of saturation is an error, and its region agrees
     Inspected t("nmos_cascode", "vout", {{"vout out 0 dc 2", "vout out 0 dc 0.6"}});
     REQUIRE_FALSE(t.result.findings.empty());
     CHECK(t.result.findings.front().severity == Severity::error);
-    CHECK(t.result.findings.front().code == "out-of-saturation");
+    CHECK(t.result.findings.front().code == FindingCode::out_of_saturation);
     for (const DeviceRegion& d : t.output().devices) {
         CAPTURE(d.name);
         const bool saturated = t.op_value("@" + d.name + "[vds]") >= t.op_value("@" + d.name + "[vdsat]");
         CHECK((d.region == Region::saturation) == saturated);
         bool flagged = false;
-        for (const Finding& f : t.result.findings) flagged |= f.code == "out-of-saturation" && f.subject == d.name;
+        for (const Finding& f : t.result.findings) flagged |= f.code == FindingCode::out_of_saturation && f.subject == d.name;
         CHECK(flagged == !saturated);
     }
     CHECK(t.output().devices.back().region == Region::triode);
@@ -241,7 +241,7 @@ TEST_CASE("an output forced out of saturation is an error, and its region agrees
 
     // The PMOS image, its output pulled up to 2.9 V of the 3.3 V supply.
     Inspected p("pmos_cascode", "vout", {{"vout out 0 dc 1.3", "vout out 0 dc 2.9"}});
-    CHECK(p.result.findings.front().code == "out-of-saturation");
+    CHECK(p.result.findings.front().code == FindingCode::out_of_saturation);
     for (const DeviceRegion& d : p.output().devices) {
         CAPTURE(d.name);
         const bool saturated =
@@ -257,7 +257,7 @@ TEST_CASE("an output forced out of saturation is an error, and its region agrees
 
 TEST_CASE("bipolar output forced into saturation") {
     Inspected t("npn_simple", "vout1", {{"vout1 out1 0 dc 3", "vout1 out1 0 dc 0.1"}});
-    CHECK(t.result.findings.front().code == "out-of-saturation");
+    CHECK(t.result.findings.front().code == FindingCode::out_of_saturation);
     CHECK(t.result.findings.front().subject == "q2");
     CHECK(t.output().devices.front().region == Region::bipolar_saturation);
 }
@@ -334,7 +334,7 @@ TEST_CASE("BSIM4 cascode: inspection within 1 %, and the region follows the mode
             CHECK(d.current_source == saturated);
             bool flagged = false;
             for (const Finding& f : low.result.findings)
-                flagged |= f.code == "out-of-saturation" && f.subject == d.name;
+                flagged |= f.code == FindingCode::out_of_saturation && f.subject == d.name;
             CHECK(flagged == !saturated);
         }
     }

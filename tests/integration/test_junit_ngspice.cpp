@@ -18,10 +18,10 @@
 #include "parsers/netlist/netlist.hpp"
 #include "parsers/raw/raw.hpp"
 #include "parsers/waivers/waivers.hpp"
-#include "src/analyse/apply_waivers.hpp"
+#include "src/analyse/build_review_tree.hpp"
 #include "src/analyse/pipeline.hpp"
 #include "src/model/op_point_build.hpp"
-#include "src/report/finding_scope.hpp"
+#include "src/report/finding_text.hpp"
 #include "src/report/junit_report.hpp"
 #include "support/ngspice_run.hpp"
 
@@ -95,8 +95,8 @@ struct Bench {
     test::NgspiceRun run;
     Circuit circuit;
     OpPoint op;
-    Review review;
-    report::ReviewInputs inputs;
+    ReviewTree review;
+    ReviewInputs inputs{"deck<&>.cir", "op.raw: Operating Point", {"ac \"1\".raw"}};
 
     Bench() : run(test::run_ngspice(deck(), "mc-junit")) {
         REQUIRE_MESSAGE(run.status == 0, run.output);
@@ -104,9 +104,10 @@ struct Bench {
         raw::RawFile file = raw::read_raw(run.file("op.raw"));
         REQUIRE(!file.plots.empty());
         op = build_op_point(circuit, file, file.plots[0]);
-        review = run_review(circuit, op, InspectOptions{});
-        inputs = {"deck<&>.cir", "op.raw: Operating Point", {"ac \"1\".raw"}};
+        review_with(ReviewSettings{});
     }
+
+    void review_with(const ReviewSettings& settings) { review = run_review(circuit, op, {}, settings, inputs); }
 
     double op_value(const std::string& vector) const {
         raw::RawFile file = raw::read_raw(run.file("op.raw"));
@@ -117,7 +118,7 @@ struct Bench {
 
     // Renders the review as JUnit and reads it back through ElementTree.
     json junit() const {
-        const std::string xml = report::review_to_junit(inputs, circuit, op, review);
+        const std::string xml = report::review_to_junit(review);
         test::write_text(run.file("junit.xml"), xml);
         test::write_text(run.file("read_junit.py"), read_junit_py);
         const std::string cmd =
@@ -168,19 +169,23 @@ const json& find_case(const json& suite, const std::string& mirror, const std::s
 }
 
 // Every test case against the review: one per output, in order, and its failures exactly the
-// unwaived errors that concern the output (as type and message, in the review's order).
+// unwaived findings at the failing severity that the tree places under the output (as type
+// and message, in the review's order).
 void check_cases_against_review(const json& suite, const Bench& b) {
     std::size_t k = 0;
-    for (const Mirror& m : b.review.mirrors)
-        for (const MirrorOutput& o : m.outputs) {
+    for (const ReviewMirror& m : b.review.mirrors)
+        for (const ReviewOutput& o : m.outputs) {
             REQUIRE(k < suite["cases"].size());
             const json& c = suite["cases"][k++];
-            CHECK(c["attrs"]["classname"] == m.id);
+            CHECK(c["attrs"]["classname"] == m.label);
             CHECK(c["attrs"]["name"] == "output " + o.node);
             json expected = json::array();
-            for (const Finding& f : b.review.findings)
-                if (fails_review(f) && report::finding_concerns_output(f, b.circuit, m, o))
-                    expected.push_back({{"type", f.code}, {"message", f.message}});
+            for (std::size_t i : o.findings) {
+                const Finding& f = b.review.findings[i];
+                if (fails_review(f, b.review.settings.fail_on))
+                    expected.push_back({{"type", to_string(f.code)},
+                                        {"message", report::finding_sentence(f, b.review.display_names)}});
+            }
             json found = json::array();
             for (const auto& f : c["failures"]) found.push_back({{"type", f["type"]}, {"message", f["message"]}});
             CHECK(found == expected);
@@ -225,25 +230,25 @@ TEST_CASE("a cascode in triode fails its output's test case; a healthy mirror pa
         REQUIRE(!cascode["failures"].empty());
         const std::string text = cascode["failures"][0]["text"];
         CHECK(text.find("nmos-cascode:m4") != std::string::npos);
-        CHECK(text.find(std::string(find_finding_code("out-of-saturation")->action)) != std::string::npos);
+        CHECK(text.find(std::string(catalogue_row(FindingCode::out_of_saturation).action)) != std::string::npos);
         CHECK(suite["properties"]["netlist"] == "deck<&>.cir");
         CHECK(suite["properties"]["op"] == "op.raw: Operating Point");
         CHECK(suite["properties"]["simulation-1"] == "ac \"1\".raw");
     }
 
     SUBCASE("the same review renders to the same bytes") {
-        CHECK(report::review_to_junit(b.inputs, b.circuit, b.op, b.review) ==
-              report::review_to_junit(b.inputs, b.circuit, b.op, b.review));
+        CHECK(report::review_to_junit(b.review) == report::review_to_junit(b.review));
     }
 }
 
 TEST_CASE("a waived error no longer fails; its reason and unused waivers are in system-out") {
     Bench b;
     const std::string reason = "held low only in reset & <standby>, see \"R&D\" note 'B'";
-    const waivers::Waivers w = waivers::parse_waivers(
-        "NMOS-Cascode:M4 out-of-saturation " + reason + "\nmp9 cutoff stale line\n", "waivers.txt",
-        finding_code_names());
-    apply_waivers(b.review.findings, w);
+    ReviewSettings settings;
+    settings.waivers = waivers::parse_waivers("NMOS-Cascode:M4 out-of-saturation " + reason +
+                                                  "\nmp9 cutoff stale line\n",
+                                              "waivers.txt", finding_code_names());
+    b.review_with(settings);
 
     const json doc = b.junit();
     const json& suite = only_suite(doc);
@@ -270,20 +275,24 @@ TEST_CASE("warnings and notes go to system-out; reference-side findings reach ev
     // A hand-made finding on the reference diode of the PMOS mirror, with text XML 1.0
     // cannot carry as it is: control characters, a byte that is not UTF-8, and `]]>`.
     const std::string mirror = "pmos-simple:mp<2>&x";
-    b.review.findings.push_back(
-        make_finding(Severity::warning, "low-margin", mirror, "mp1", "mp1\x01 is odd\x1b[0m \xff ]]> <b>&amp;</b>"));
+    b.review.findings.push_back(make_finding(FindingCode::not_simulated, Severity::warning, mirror, "mp1",
+                                             {FindingValue::words("node", "mp1"),
+                                              FindingValue::words("note", "odd\x01 is odd\x1b[0m \xff ]]> <b>&amp;</b>")}));
+    join_findings(b.review);
     const json doc = b.junit();
     const json& suite = only_suite(doc);
     check_counts(doc);
     for (const std::string node : {"o<u>t&b", "out3"}) {
         const std::string out = find_case(suite, mirror, node)["system_out"];
-        CHECK(out.find("warning low-margin at mp1: mp1\xEF\xBF\xBD is odd\xEF\xBF\xBD[0m \xEF\xBF\xBD ]]> <b>&amp;</b>\n") !=
-              std::string::npos);
+        CHECK(out.find("warning not-simulated at mp1: The output at mp1 is odd\xEF\xBF\xBD is odd\xEF\xBF\xBD[0m "
+                       "\xEF\xBF\xBD ]]> <b>&amp;</b>.\n") != std::string::npos);
     }
     CHECK(find_case(suite, "nmos-cascode:m4", "out")["system_out"].get<std::string>().find("mp1") == std::string::npos);
 
     SUBCASE("an error about a reference device fails every output of its mirror") {
-        b.review.findings.push_back(make_finding(Severity::error, "cutoff", mirror, "mp1", "mp1 \"is\" cut off"));
+        Finding cut = make_finding(FindingCode::cutoff, mirror, "mp1", {FindingValue::names("device", {"mp1"})});
+        b.review.findings.push_back(cut);
+        join_findings(b.review);
         const json again = b.junit();
         const json& s = only_suite(again);
         check_counts(again);
@@ -291,12 +300,15 @@ TEST_CASE("warnings and notes go to system-out; reference-side findings reach ev
         for (const std::string node : {"o<u>t&b", "out3"}) {
             const json& c = find_case(s, mirror, node);
             REQUIRE(c["failures"].size() == 1);
-            CHECK(c["failures"][0]["message"] == "mp1 \"is\" cut off");
+            CHECK(c["failures"][0]["message"] ==
+                  "mp1 is cut off, so it carries no mirrored current and every formula above it is wrong.");
         }
     }
 
     SUBCASE("an error of no output fails one extra test case") {
-        b.review.findings.push_back(make_finding(Severity::error, "cutoff", "", "m9\tx", "a finding of\nno mirror"));
+        b.review.findings.push_back(
+            make_finding(FindingCode::cutoff, "", "m9\tx", {FindingValue::names("device", {"a finding of\nno mirror"})}));
+        join_findings(b.review);
         const json again = b.junit();
         const json& s = only_suite(again);
         check_counts(again);
@@ -304,6 +316,8 @@ TEST_CASE("warnings and notes go to system-out; reference-side findings reach ev
         const json& extra = s["cases"][3];
         CHECK(extra["attrs"]["classname"] == "mirrorcheck");
         REQUIRE(extra["failures"].size() == 1);
-        CHECK(extra["failures"][0]["message"] == "a finding of\nno mirror");  // line end kept in an attribute
+        CHECK(extra["failures"][0]["message"] ==
+              "a finding of\nno mirror is cut off, so it carries no mirrored current and every formula above it is "
+              "wrong.");  // line end kept in an attribute
     }
 }

@@ -1,7 +1,9 @@
-// `mirrorcheck peek` as a user runs it: exit statuses, the table, JSON that parses, and
-// the corrupt-file catalogue giving exit status 2 with its error code on stderr.
+// `mirrorcheck peek` as a user runs it: exit statuses, the short summary by default, a
+// plot's variables on request, a vector's values alone with their unit, JSON that parses
+// with every digit, and the corrupt-file catalogue giving exit status 2 with its error code.
 #include <cstdlib>
 #include <filesystem>
+#include <sstream>
 #include <string>
 
 #include <doctest/doctest.h>
@@ -18,18 +20,50 @@ Result peek(const std::string& args) { return mirrorcheck::test::run_cli("peek "
 std::string data(const std::string& name) { return std::string(MIRRORCHECK_TEST_DATA) + "/" + name; }
 std::string sample(const std::string& name) { return std::string(MIRRORCHECK_SOURCE_DIR) + "/samples/" + name; }
 
-}  // namespace
-
-TEST_CASE("peek on the shipped sample: plots, variables and a vector's value") {
-    Result r = peek(sample("tamarack/bias_op.raw") + " --vector 'v(vdd)'");
-    CHECK(r.status == 0);
-    CHECK(r.err.empty());
-    CHECK(r.out.find("Operating Point") != std::string::npos);
-    CHECK(r.out.find("@mn4[gm]") != std::string::npos);
-    CHECK(r.out.find("3.3") != std::string::npos);  // the sample's supply
+std::size_t lines(const std::string& text) {
+    std::size_t n = 0;
+    for (char c : text) n += c == '\n';
+    return n;
 }
 
-TEST_CASE("peek --format json parses and carries the values read") {
+}  // namespace
+
+TEST_CASE("peek on the shipped sample: one line per plot, no variable tables") {
+    Result r = peek(sample("tamarack/bias_op.raw"));
+    CHECK(r.status == 0);
+    CHECK(r.err.empty());
+    CHECK(lines(r.out) == 1 + 17 + 1);  // the file, 17 plots, the hint
+    CHECK(r.out.find("plot 1: Operating Point [op], real, 1 point, 221 variables") != std::string::npos);
+    CHECK(r.out.find("4 points from 1 Hz to 1 kHz") != std::string::npos);
+    CHECK(r.out.find("@mn4[gm]") == std::string::npos);
+}
+
+TEST_CASE("peek --plot lists the variables of those plots only") {
+    Result r = peek(sample("tamarack/bias_op.raw") + " --plot op");
+    CHECK(r.status == 0);
+    CHECK(r.out.find("@mn4[gm]") != std::string::npos);
+    CHECK(r.out.find("plot 1: Operating Point") != std::string::npos);
+    CHECK(r.out.find("AC Analysis") == std::string::npos);
+}
+
+TEST_CASE("peek --vector prints the value alone, with its unit and an SI prefix") {
+    // The README's example: mn4's Vds in the op plot (ngspice wrote 0.2468...)
+    Result r = peek(sample("tamarack/bias_op.raw") + " --plot op --vector '@mn4[vds]'");
+    CHECK(r.status == 0);
+    CHECK(r.out == "@mn4[vds] = 247 mV  (plot 1, Operating Point)\n");
+    Result supply = peek(sample("tamarack/bias_op.raw") + " --plot op --vector 'v(vdd)'");
+    CHECK(supply.out == "v(vdd) = 3.3 V  (plot 1, Operating Point)\n");
+    Result gm = peek(sample("tamarack/bias_op.raw") + " --plot op --vector '@mn4[gm]'");
+    CHECK(gm.out.find("190 µS") != std::string::npos);
+    // an AC vector: one line per frequency, magnitude and phase
+    Result ac = peek(data("raw/three_plots.raw") + " --plot ac --vector 'v(out)'");
+    CHECK(ac.status == 0);
+    CHECK(ac.out.find("v(out) in plot 3") == 0);
+    CHECK(lines(ac.out) == 1 + 3);
+    CHECK(ac.out.find("∠") != std::string::npos);
+}
+
+TEST_CASE("peek --format json parses and carries the values read, in full precision") {
     Result r = peek(data("raw/three_plots.raw") + " --format json --vector 'i(vout)' --plot ac");
     REQUIRE(r.status == 0);
     auto j = nlohmann::json::parse(r.out);
@@ -39,6 +73,11 @@ TEST_CASE("peek --format json parses and carries the values read") {
     CHECK(j["plots"][2]["complex"] == true);
     CHECK(j["plots"][2]["vectors"]["i(vout)"].size() == 3);
     CHECK(j["plots"][0]["vectors"].empty());  // op was not selected, so not decoded
+    Result vds = peek(sample("tamarack/bias_op.raw") + " --format json --plot op --vector '@mn4[vds]'");
+    auto k = nlohmann::json::parse(vds.out);
+    const double value = k["plots"][0]["vectors"]["@mn4[vds]"][0];
+    CHECK(value == doctest::Approx(0.2468).epsilon(1e-3));
+    CHECK(value != doctest::Approx(0.247).epsilon(1e-9));  // not rounded to the table's digits
 }
 
 TEST_CASE("peek on a listing lists its devices") {

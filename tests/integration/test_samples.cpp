@@ -28,11 +28,17 @@ const fs::path source_dir = MIRRORCHECK_SOURCE_DIR;
 const fs::path sample = source_dir / "samples" / "tamarack";
 const std::string review_args = "review samples/tamarack/bias.cir --op samples/tamarack/bias_op.raw";
 
-// The only thing a report may differ in between machines: the project's absolute path.
+// The only things a report may differ in between machines and commits: the project's
+// absolute path, and the source revision the tool was built from (JSON's tool.revision).
 std::string without_source_dir(std::string text) {
     const std::string dir = source_dir.string();
     for (std::size_t at = text.find(dir); at != std::string::npos; at = text.find(dir, at))
         text.replace(at, dir.size(), "<source>");
+    const std::string key = "\"revision\": \"";
+    if (std::size_t at = text.find(key); at != std::string::npos) {
+        const std::size_t start = at + key.size(), end = text.find('"', start);
+        text.replace(start, end - start, "<revision>");
+    }
     return text;
 }
 

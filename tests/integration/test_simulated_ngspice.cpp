@@ -135,6 +135,24 @@ TEST_CASE("--at picks the AC point nearest the frequency asked; the default is t
     CHECK(high.best()->phase_degrees < -45);
 }
 
+TEST_CASE("--at outside the sweep is refused, not moved to the nearest end") {
+    auto s = simulate("vout out 0 dc 1.5 ac 1\n", "ac dec 10 1 1g\nwrite run.raw\n");
+    SimulatedOptions at;
+    at.at = 1e9;  // the sweep's last point: inside
+    CHECK(one(s, at).best());
+    for (double outside : {2e9, 0.5}) {
+        CAPTURE(outside);
+        at.at = outside;
+        try {
+            one(s, at);
+            FAIL("no error");
+        } catch (const InputError& e) {
+            CHECK(e.code() == "usage.at-outside-sweep");
+            CHECK(e.message().find("1 Hz to 1 GHz") != std::string::npos);
+        }
+    }
+}
+
 TEST_CASE("no probe, an ambiguous probe, and --probe naming the source") {
     auto s = simulate("vout out 0 dc 1.5 ac 1\niin 0 out dc 0 ac 1\n", "ac dec 1 1 10\nwrite run.raw\n");
     auto ambiguous = one(s);

@@ -79,7 +79,7 @@ TEST_CASE("bipolar regions: forward-active, saturation, cutoff") {
     CHECK(classify_region(bjt("q1", 0.65, 0.5), low).region == Region::bipolar_saturation);
     CHECK(classify_region(bjt("q1", 0.65, 0.3), low).region == Region::forward_active);
     CHECK(classify_region(bjt("q1", 0.2, -2.0), defaults).region == Region::cutoff);
-    CHECK(to_string(Region::bipolar_saturation) == "saturation");
+    CHECK(to_string(Region::bipolar_saturation) == "saturated");  // not MOS saturation, its healthy region
     CHECK(to_string(Region::weak_inversion) == "weak-inversion");
 }
 
@@ -141,11 +141,17 @@ TEST_CASE("findings: out of saturation first, then warnings, then information") 
     HandMade h;
     auto result = inspect_mirrors(h.circuit, h.op, h.mirrors, defaults);
     std::vector<std::string> codes;
-    for (const Finding& f : result.findings) codes.push_back(f.code + "/" + f.subject);
+    for (const Finding& f : result.findings) codes.push_back(std::string(to_string(f.code)) + "/" + f.subject);
     CHECK(codes == std::vector<std::string>{"out-of-saturation/m2", "low-margin/m3", "ratio-error/out1",
                                             "ratio-error/out2", "low-intrinsic-gain/m6", "body-effect/out3"});
     CHECK(result.findings.front().severity == Severity::error);
-    CHECK(result.findings.front().message.find("m2 is in triode") == 0);
+    // m2: vds 0.2 V against vdsat 0.4 V, as named values with their units
+    const Finding& first = result.findings.front();
+    CHECK(first.value("region")->text == "triode");
+    CHECK(first.value("shortfall")->number == doctest::Approx(0.2));
+    CHECK(first.value("shortfall")->unit == Unit::volt);
+    CHECK(first.value("saturation_voltage")->number == doctest::Approx(0.4));
+    CHECK(first.subject_is_device);
     CHECK(result.findings.back().severity == Severity::info);
 }
 

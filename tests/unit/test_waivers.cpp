@@ -49,7 +49,7 @@ void check_error(const std::string& text, const std::string& code, std::size_t l
 }
 
 Finding finding(Severity severity, const std::string& code, const std::string& mirror, const std::string& subject) {
-    return make_finding(severity, code, mirror, subject, code + " at " + subject);
+    return make_finding(*parse_finding_code(code), severity, mirror, subject, {});
 }
 
 waivers::Waiver waiver(const std::string& subject, const std::string& code, const std::string& reason,
@@ -104,7 +104,7 @@ TEST_CASE("reader: each error with its code, line and column") {
 TEST_CASE("reader: an unknown code's message lists the known codes") {
     const InputError e = parse_error("m4 out-of-saturaton typo\n");
     CHECK(e.message().find("out-of-saturaton") != std::string::npos);
-    for (const auto& c : finding_codes()) CHECK(e.message().find(std::string(c.code)) != std::string::npos);
+    for (const auto& c : finding_catalogue()) CHECK(e.message().find(std::string(c.name)) != std::string::npos);
     CHECK(std::string(e.what()).rfind("w.txt:1:4: error:", 0) == 0);
 }
 
@@ -173,7 +173,7 @@ TEST_CASE("apply_waivers: names compare without case, and the first matching lin
     CHECK(findings[0].waived);
     CHECK(findings[0].waiver == "first");
     // The catch-all line took nothing: it is reported as unused.
-    CHECK(findings[1].code == "waiver-unused");
+    CHECK(findings[1].code == FindingCode::waiver_unused);
     CHECK(findings[1].subject == "w.txt:2");
 }
 
@@ -186,12 +186,13 @@ TEST_CASE("apply_waivers: each unused waiver is an info finding naming file and 
     CHECK_FALSE(findings[0].waived);
     for (std::size_t k = 1; k < 3; ++k) {
         CHECK(findings[k].severity == Severity::info);
-        CHECK(findings[k].code == "waiver-unused");
+        CHECK(findings[k].code == FindingCode::waiver_unused);
         CHECK(findings[k].mirror.empty());
         CHECK_FALSE(fails_review(findings[k]));
     }
     CHECK(findings[1].subject == "w.txt:7");
-    CHECK(findings[1].message.find("w.txt:7") != std::string::npos);
+    CHECK(findings[1].value("place")->text == "w.txt:7");
+    CHECK(findings[1].value("waiver")->text == "m9 cutoff");
     CHECK(findings[2].subject == "w.txt:9");
 }
 
@@ -204,5 +205,20 @@ TEST_CASE("apply_waivers: findings already waived keep their reason; no waivers 
     apply_waivers(findings, {waiver("m2", "cutoff", "later file", 1)});
     REQUIRE(findings.size() == 2);
     CHECK(findings[0].waiver == "earlier file");
-    CHECK(findings[1].code == "waiver-unused");
+    CHECK(findings[1].code == FindingCode::waiver_unused);
+}
+
+TEST_CASE("apply_waivers: a device and a mirror answer to the designer's names too") {
+    // A process kit's wrapper: ngspice's m.xm2.msky130_fd_pr__nfet_01v8 is the designer's xm2.
+    const std::string device = "m.xm2.msky130_fd_pr__nfet_01v8", mirror = "nmos-simple:" + device;
+    const DesignerNames names = {{device, "xm2"}, {mirror, "nmos-simple:xm2"}};
+    std::vector<Finding> findings = {finding(Severity::error, "cutoff", mirror, device),
+                                     finding(Severity::warning, "ratio-error", mirror, "pd")};
+    findings[0].subject_is_device = true;
+    apply_waivers(findings, {waiver("XM2", "cutoff", "by the designer's device", 1),
+                             waiver("nmos-simple:xm2", "ratio-error", "by the designer's mirror", 2)},
+                  names);
+    REQUIRE(findings.size() == 2);  // both lines used
+    CHECK(findings[0].waiver == "by the designer's device");
+    CHECK(findings[1].waiver == "by the designer's mirror");
 }

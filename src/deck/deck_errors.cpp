@@ -1,0 +1,38 @@
+#include "src/deck/deck_errors.hpp"
+
+#include <fmt/format.h>
+
+namespace mirrorcheck::errors {
+
+InputError deck_not_writable(const std::string& deck_path) {
+    return {"ngspice.failed", Location(deck_path), "cannot write the deck into this folder"};
+}
+
+InputError ngspice_missing(const std::string& executable, const std::string& log_tail) {
+    return {"ngspice.missing", Location(executable),
+            fmt::format("cannot start `{}`: install ngspice (Debian: apt-get install ngspice) or give its path with "
+                        "--ngspice{}",
+                        executable, log_tail)};
+}
+
+InputError ngspice_no_convergence(const std::string& log_path, const std::string& log_tail) {
+    return {"ngspice.no-convergence", Location(log_path),
+            fmt::format("ngspice did not converge on the operating point; check the netlist's bias, or help it with "
+                        ".nodeset or .option gmin/itl1. The end of its log:{}",
+                        log_tail)};
+}
+
+InputError ngspice_failed(const std::string& log_path, const std::string& what, const std::string& deck_name,
+                          const std::string& log_tail) {
+    return {"ngspice.failed", Location(log_path),
+            fmt::format("ngspice {} on {}. The end of its log:{}", what, deck_name, log_tail)};
+}
+
+InputError title_line(const std::string& netlist, const std::string& line) {
+    return {"prepare.title-line", Location(netlist, 1, 1),
+            fmt::format("the first line `{}` is the deck's title; included into another deck, ngspice would read it "
+                        "as an element. Start it with `*` (a comment) so the netlist can be included unchanged",
+                        line)};
+}
+
+}  // namespace mirrorcheck::errors

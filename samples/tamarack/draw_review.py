@@ -127,7 +127,7 @@ def margin_panel(report, x0, y0, width, warn=0.1):
             colour = SEVERITY_COLOUR["warning"]
         else:
             colour = "#4f8a5b"
-        parts.append(text(x0, y + 11, d["name"], 11))
+        parts.append(text(x0, y + 11, d.get("designer_name", d["name"]), 11))
         left, right = sorted((xpos(0.0), xpos(margin)))
         parts.append(f'<rect x="{left:.1f}" y="{y + 2}" width="{max(right - left, 1):.1f}" height="11" '
                      f'fill="{colour}"><title>{escape(d["name"])} {escape(d["region"])}: margin '
@@ -155,7 +155,7 @@ def draw(report):
     right, right_h = margin_panel(report, left_w + 2 * pad, pad + 16, width - left_w - 3 * pad)
     s = report["summary"]
     footer_y = pad + 16 + max(left_h, right_h) + 10
-    footer = (f'{s["mirrors"]} mirrors: {s["errors"]} error, {s["warnings"]} warnings, {s["infos"]} notes '
+    footer = (f'{s["mirrors"]} mirrors: {s["errors"]} error, {s["warnings"]} warnings, {s["infos"]} info '
               f'(mirrorcheck review of {report["inputs"]["netlist"]})')
     height = footer_y + 14
     return "\n".join(

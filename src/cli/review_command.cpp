@@ -18,14 +18,14 @@
 #include "src/report/review_report.hpp"
 
 namespace mirrorcheck::cli {
-namespace {
-
-
-}  // namespace
 
 double quantity(const std::string& option, const std::string& text, const char* unit) {
     auto v = parse_quantity(text, unit);
-    if (!v) throw usage::bad_quantity(option, text, unit);
+    if (!v) {
+        if (lacks_unit(text)) throw usage::quantity_without_unit(option, text, unit);
+        throw usage::bad_quantity(option, text, unit);
+    }
+    if (*v < 0) throw usage::negative_quantity(option, text);
     return *v;
 }
 

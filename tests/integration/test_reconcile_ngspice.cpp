@@ -10,6 +10,7 @@
 #include <nlohmann/json.hpp>
 
 #include "support/ngspice_run.hpp"
+#include "support/report_schema.hpp"
 #include "support/run_cli.hpp"
 
 namespace {
@@ -49,6 +50,7 @@ Reviewed review(const std::string& deck, const std::string& options = "") {
     REQUIRE_MESSAGE(run.status == 0, run.output);
     auto r = mirrorcheck::test::run_cli("review deck.cir --op op.raw --ac ac.raw --format json " + options, run.dir);
     REQUIRE_MESSAGE(r.status != 2, r.err);
+    CHECK(mirrorcheck::test::report_schema_errors(r.out) == "");
     return {r.status, json::parse(r.out), r.out};
 }
 

@@ -4,6 +4,7 @@
 // the report contract (DESIGN.md, version 1) when the same mirror has headroom, the same
 // review from the `show` listing as from the raw file, and exit 2 when the operating
 // point lacks the device parameters, with the save line to add.
+#include <algorithm>
 #include <cstdlib>
 #include <filesystem>
 #include <string>
@@ -13,14 +14,32 @@
 
 #include "parsers/raw/raw.hpp"
 #include "support/ngspice_run.hpp"
+#include "support/report_schema.hpp"
 #include "support/run_cli.hpp"
 
 namespace {
 
 using Result = mirrorcheck::test::CliResult;
 
+// Runs `mirrorcheck review ARGS`; a JSON report is checked against the schema.
 Result review(const std::filesystem::path& dir, const std::string& args) {
-    return mirrorcheck::test::run_cli("review " + args, dir);
+    Result r = mirrorcheck::test::run_cli("review " + args, dir);
+    if (args.find("--format json") != std::string::npos && r.status < 2)
+        CHECK(mirrorcheck::test::report_schema_errors(r.out) == "");
+    return r;
+}
+
+std::size_t longest_line(const std::string& text) {
+    std::size_t longest = 0, width = 0;
+    for (char c : text) {
+        if (c == '\n') {
+            longest = std::max(longest, width);
+            width = 0;
+        } else if ((static_cast<unsigned char>(c) & 0xC0) != 0x80) {
+            ++width;  // one character per UTF-8 sequence
+        }
+    }
+    return std::max(longest, width);
 }
 
 // A level-1 NMOS cascode sink, 1:1, with its output held at `vout`.
@@ -99,9 +118,79 @@ TEST_CASE("an op without device parameters: exit 2 and the save line to add") {
     CHECK(r.err.find("@m4[gm]") != std::string::npos);
 }
 
-TEST_CASE("bad option values are usage errors") {
+TEST_CASE("option values need their unit; negative margins and tolerances are refused; all exit 2") {
     auto run = mirrorcheck::test::run_ngspice(cascode_deck(2.0, true), "mc-review");
     REQUIRE(run.status == 0);
-    CHECK(review(run.dir, "deck.cir --op op.raw --margin 100mA").status == 2);
-    CHECK(review(run.dir, "deck.cir --op op.raw --margin 50mV").status == 0);
+    struct Case {
+        std::string options;
+        const char* code;  // on stderr
+        const char* hint;  // the accepted form it suggests
+    };
+    for (const Case& c : {Case{"--margin 100", "usage.missing-unit", "100mV"},  // once read as 100 V
+                          Case{"--tolerance 10", "usage.missing-unit", "10%"},  // once read as 1000 %
+                          Case{"--vce-sat 0.2", "usage.missing-unit", "0.1V"},
+                          Case{"--at 10", "usage.missing-unit", "1kHz"},
+                          Case{"--margin 100m", "usage.missing-unit", "100mV"},
+                          Case{"--margin 100mA", "usage.bad-quantity", "100mV"},
+                          Case{"--margin -50mV", "usage.negative-value", "0 or more"},
+                          Case{"--tolerance -10%", "usage.negative-value", "0 or more"},
+                          Case{"--ratio-tolerance -5%", "usage.negative-value", "0 or more"}}) {
+        CAPTURE(c.options);
+        Result r = review(run.dir, "deck.cir --op op.raw " + c.options);
+        CHECK(r.status == 2);
+        CHECK(r.out.empty());
+        CHECK(r.err.find(c.code) != std::string::npos);
+        CHECK(r.err.find(c.hint) != std::string::npos);
+    }
+    CHECK(review(run.dir, "deck.cir --op op.raw --margin 50mV --tolerance 10% --vce-sat 0.2V").status == 0);
+    CHECK(review(run.dir, "deck.cir --op op.raw --fail-on info").status == 2);
+    CHECK(review(run.dir, "deck.cir --op op.raw --format xml").status == 2);
+}
+
+TEST_CASE("--fail-on warning fails on a warning that error severity lets pass") {
+    auto run = mirrorcheck::test::run_ngspice(cascode_deck(2.0, true), "mc-review");
+    REQUIRE(run.status == 0);
+    // A margin asked for above every device's: low-margin warnings, no error.
+    Result pass = review(run.dir, "deck.cir --op op.raw --margin 2V --format json");
+    CHECK(pass.status == 0);
+    auto j = nlohmann::json::parse(pass.out);
+    CHECK(j["summary"]["warnings"].get<int>() > 0);
+    CHECK(j["summary"]["errors"] == 0);
+    CHECK(j["summary"]["passed"] == true);
+    CHECK(j["mirrors"][0]["outputs"][0]["status"] == "pass");
+    Result fail = review(run.dir, "deck.cir --op op.raw --margin 2V --fail-on warning --format json");
+    CHECK(fail.status == 1);
+    auto k = nlohmann::json::parse(fail.out);
+    CHECK(k["settings"]["fail_on"] == "warning");
+    CHECK(k["summary"]["passed"] == false);
+    CHECK(k["mirrors"][0]["outputs"][0]["status"] == "fail");
+}
+
+TEST_CASE("the table: the verdict and the summary first, --summary alone, no line wider than 120") {
+    auto run = mirrorcheck::test::run_ngspice(cascode_deck(0.7, true), "mc-review");
+    REQUIRE(run.status == 0);
+    Result full = review(run.dir, "deck.cir --op op.raw");
+    CHECK(full.status == 1);
+    // line 2 is the verdict, then the summary table's header and the output's row
+    const std::size_t verdict = full.out.find('\n') + 1;
+    CHECK(full.out.substr(verdict, 4) == "fail");
+    const std::size_t header = full.out.find("output  status");
+    REQUIRE(header != std::string::npos);
+    CHECK(header < full.out.find("nmos-cascode:m4,"));  // before the mirror's block
+    CHECK(full.out.find("\nout     fail") != std::string::npos);
+    CHECK(longest_line(full.out) <= 120);  // stdout is a file here, not a terminal
+    CHECK(full.out.find('\x1b') == std::string::npos);  // no colour outside a terminal
+
+    Result summary = review(run.dir, "deck.cir --op op.raw --summary");
+    CHECK(summary.status == 1);
+    CHECK(summary.out == full.out.substr(0, summary.out.size()));
+    CHECK(summary.out.find("nmos-cascode:m4,") == std::string::npos);
+    CHECK(summary.out.find("out-of-saturation") == std::string::npos);
+}
+
+TEST_CASE("--help names every exit status, 3 for an internal error") {
+    Result help = mirrorcheck::test::run_cli("review --help");
+    CHECK(help.status == 0);
+    for (const char* status : {"0 no unwaived finding", "1 some", "2 bad usage", "3 an internal error"})
+        CHECK(help.out.find(status) != std::string::npos);
 }

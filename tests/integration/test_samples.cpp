@@ -17,6 +17,7 @@
 
 #include "parsers/raw/raw.hpp"
 #include "support/ngspice_run.hpp"
+#include "support/report_schema.hpp"
 #include "support/run_cli.hpp"
 
 namespace {
@@ -68,6 +69,7 @@ TEST_CASE("review of the shipped sample: the expected JSON report") {
     CHECK_MESSAGE(r.err.empty(), r.err);
     CHECK(r.status == 1);
     check_golden(without_source_dir(r.out), sample / "expected" / "review.json");
+    CHECK(mirrorcheck::test::report_schema_errors(r.out) == "");
 }
 
 namespace {

@@ -321,3 +321,39 @@ TEST_CASE("warnings and notes go to system-out; reference-side findings reach ev
               "wrong.");  // line end kept in an attribute
     }
 }
+
+TEST_CASE("--fail-on warning: a warning fails its test case, which error severity leaves green") {
+    Bench b;
+    const std::string mirror = "pmos-simple:mp<2>&x";
+    auto add_warning = [&](Bench& bench) {
+        bench.review.findings.push_back(make_finding(FindingCode::low_margin, mirror, "mp1",
+                                                     {FindingValue::names("device", {"mp1"}),
+                                                      FindingValue::of("margin", 0.05, Unit::volt),
+                                                      FindingValue::of("margin_asked", 0.1, Unit::volt)}));
+        join_findings(bench.review);
+    };
+    add_warning(b);
+    const json lenient = b.junit();
+    check_counts(lenient);
+    for (const std::string node : {"o<u>t&b", "out3"}) {
+        const json& c = find_case(only_suite(lenient), mirror, node);
+        CHECK(c["failures"].empty());
+        CHECK(c["system_out"].get<std::string>().find("warning low-margin at mp1") != std::string::npos);
+    }
+
+    ReviewSettings strict;
+    strict.fail_on = Severity::warning;
+    b.review_with(strict);
+    add_warning(b);
+    const json doc = b.junit();
+    const json& suite = only_suite(doc);
+    check_counts(doc);
+    check_cases_against_review(suite, b);
+    CHECK(suite["properties"]["fail-on"] == "warning");
+    for (const std::string node : {"o<u>t&b", "out3"}) {
+        const json& c = find_case(suite, mirror, node);
+        REQUIRE(c["failures"].size() >= 1);
+        CHECK(c["failures"][0]["type"] == "low-margin");
+        CHECK(c["failures"][0]["text"].get<std::string>().find("What to do: check the margin") != std::string::npos);
+    }
+}

@@ -1,3 +1,6 @@
+// The one place that decides the order of the passes: recognise, check the op data,
+// inspect, linearise, read the simulated values, reconcile, waive, then join everything into
+// the review tree the back ends read.
 #include "src/analyse/pipeline.hpp"
 
 #include <algorithm>

@@ -11,7 +11,10 @@
 //   inspection vs simulated    reported only when there is no linearised value (otherwise
 //                              the two pairs above already explain it)
 // The first cause whose evidence is present is named; the checks run from the most
-// specific evidence to the least. Severity: a disagreement with a named, benign cause
+// specific evidence to the least. Without a linearised value, the devices the netlist puts
+// on the output node beside the mirror (which the formula leaves out) are named before the
+// data is blamed. A finding carries its cause as a record (CauseCode and values); the
+// sentences are in the catalogue (finding.cpp). Severity: a disagreement with a named, benign cause
 // (frequency, a known neglected effect) is a warning; linearised vs simulated without a
 // cause is an error, because then the simulation and its own op data tell different stories
 // and neither can be signed off.

@@ -3,6 +3,7 @@
 // breaks it (a field renamed or missing, a region or code the contract does not know, a
 // device key that is not documented) is rejected, so the checks the other tests make
 // with report_schema_errors can fail.
+#include <regex>
 #include <string>
 
 #include <doctest/doctest.h>
@@ -27,7 +28,12 @@ json sample_report() {
 TEST_CASE("the sample's report follows the schema, with the fields flows read") {
     const json report = sample_report();
     CHECK(mirrorcheck::test::report_schema_errors(report.dump()) == "");
-    CHECK(report["tool"]["version"] == "0.1.0");
+    CHECK(report["tool"]["version"] == "0.1.0");  // CMakeLists.txt's project version
+    // the git revision the build was made from, or null outside a git checkout
+    const json& revision = report["tool"]["revision"];
+    CHECK((revision.is_null() || std::regex_match(revision.get<std::string>(), std::regex("[0-9a-f]{12}"))));
+    auto version = mirrorcheck::test::run_cli("--version");
+    CHECK(version.out.find("mirrorcheck 0.1.0") == 0);
     CHECK(report["settings"]["fail_on"] == "error");
     CHECK(report["settings"]["margin"] == doctest::Approx(0.1));
     CHECK(report["summary"]["passed"] == false);

@@ -92,7 +92,7 @@ int reading_group(const Finding& f) {
 }  // namespace
 
 const LinearisedImpedance* Review::linearised_at(const std::string& node) const {
-    for (const auto& l : linearised)
+    for (const auto& l : linearised.outputs)
         if (l.node == to_lower(node)) return &l;
     return nullptr;
 }
@@ -123,7 +123,8 @@ Review run_review(const Circuit& circuit, const OpPoint& given_op, const std::ve
 
     ReconcileOptions reconcile{settings.tolerance, !plots.empty(), no_gmb};
     review.reconciliation =
-        reconcile_resistances(circuit, review.mirrors, review.inspection, review.linearised, review.simulated, reconcile);
+        reconcile_resistances(circuit, review.mirrors, review.inspection, review.linearised.outputs, review.simulated,
+                              reconcile);
 
     review.findings = review.inspection.findings;
     if (!no_gmb.empty()) {

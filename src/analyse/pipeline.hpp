@@ -28,8 +28,9 @@ struct Review {
     std::vector<Mirror> mirrors;
     InspectionResult inspection;
     // The impedance at each mirror output node in the whole linearised circuit, measured
-    // through the node's probe source when it has one (linearise.hpp).
-    std::vector<LinearisedImpedance> linearised;
+    // through the node's probe source when it has one, and the solve's circuit-level notes
+    // (linearise.hpp).
+    LinearisedSolve linearised;
     const LinearisedImpedance* linearised_at(const std::string& node) const;
     // The impedance the simulator reports at each output node, through its probe.
     std::vector<SimulatedImpedance> simulated;

@@ -75,6 +75,10 @@ nlohmann::json rout_json(const OutputInspection& o, const LinearisedImpedance* l
             {"reflection", o.reflection.value},
             {"levels", levels},
             {"linearised", linearised ? optional_number(linearised->resistance) : nlohmann::json()},
+            {"linearised_range",
+             linearised && linearised->resistance_low && linearised->resistance_high
+                 ? nlohmann::json::array({*linearised->resistance_low, *linearised->resistance_high})
+                 : nlohmann::json()},
             {"linearised_note", linearised ? linearised->note : std::string()},
             {"linearised_scope", linearised && !linearised->scope.empty() ? nlohmann::json(linearised->scope) : nlohmann::json()},
             {"corner_frequency", linearised ? optional_number(linearised->corner_frequency) : nlohmann::json()},
@@ -181,9 +185,12 @@ nlohmann::json review_to_json(const ReviewInputs& inputs, const Circuit& circuit
         all.push_back(j);
     }
     Counts n = count(review.findings);
+    nlohmann::json solve_notes = nlohmann::json::array();
+    for (const auto& note : review.linearised.notes) solve_notes.push_back({{"note", note.text}, {"devices", note.devices}});
     return {{"schema", "mirrorcheck-report/1"},
             {"inputs", {{"netlist", inputs.netlist}, {"op", inputs.op_source}, {"simulation", inputs.simulation_files}}},
             {"assumptions", review.assumptions},
+            {"linearised_notes", solve_notes},
             {"mirrors", mirrors},
             {"devices", devices},
             {"findings", all},
@@ -225,6 +232,10 @@ void write_resistances(std::string& out, const MirrorOutput& o, const OutputInsp
         fmt::format_to(it, "          linearised  {:>9}  {} at {}{}\n", format_si(*linearised->resistance, "Ω"),
                        linearised->scope.empty() ? "the whole circuit" : linearised->scope, o.node,
                        linearised->note.empty() ? "" : "; " + linearised->note);
+        if (linearised->resistance_low && linearised->resistance_high)
+            fmt::format_to(it, "                      {:>9}  within {:+.2g} % to {:+.2g} %: what the op data leaves open\n",
+                           "", 100 * (*linearised->resistance_low / *linearised->resistance - 1),
+                           100 * (*linearised->resistance_high / *linearised->resistance - 1));
         if (linearised->corner_frequency)
             fmt::format_to(it, "                      {:>9}  where |Z| falls 3 dB below its DC value\n",
                            format_si(*linearised->corner_frequency, "Hz"));
@@ -296,6 +307,8 @@ std::string write_review_table(const ReviewInputs& inputs, const Circuit& circui
         if (f.waived) fmt::format_to(it, "           {:<24} waived {}: {}\n", "", to_string(f.severity), f.waiver);
     }
     for (const auto& a : review.assumptions) fmt::format_to(it, "\nassumed: {}\n", a);
+    if (!review.linearised.notes.empty()) out += "\nlinearised solve\n";
+    for (const auto& note : review.linearised.notes) fmt::format_to(it, "  {}\n", note.text);
     Counts n = count(review.findings);
     fmt::format_to(it, "\n{} mirror{} and stack{}: {} error{}, {} warning{}, {} note{}{}\n", review.mirrors.size(),
                    review.mirrors.size() == 1 ? "" : "s", review.mirrors.size() == 1 ? "" : "s", n.errors,

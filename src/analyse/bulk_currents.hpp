@@ -32,7 +32,7 @@ struct ImpactIonisation {
     // dVdsat/dVds: the slopes at the low and high end of each, minus the estimate.
     std::array<BulkSlopes, 2> gate_slope_range;
     std::array<BulkSlopes, 2> drain_slope_range;
-    double gate_slope_max = 0;   // the high end of dVdsat/dVgs taken, for the note
+    double gate_slope_estimate = 0;  // the dVdsat/dVgs taken
 };
 
 // GIDL from the physical drain (controls relative to the source), GISL from the physical
@@ -50,5 +50,12 @@ struct BulkCurrents {
 
 // The bulk currents of one BSIM4 device at its operating point (empty for other models).
 BulkCurrents find_bulk_currents(const Device& device, const DeviceOp& op);
+
+// For checks against ngspice: Isub as the model card gives it at the operating point
+// (ignoring the op data's isub), and the impact-ionisation slopes for given slopes of
+// Vdsat against Vgs, Vbs and Vds (in the device's forward frame).
+std::optional<double> impact_ionisation_current(const Device& device, const DeviceOp& op);
+std::optional<BulkSlopes> impact_ionisation_slopes(const Device& device, const DeviceOp& op, double dvdsat_dvgs,
+                                                   double dvdsat_dvbs, double dvdsat_dvds);
 
 }  // namespace mirrorcheck

@@ -76,6 +76,7 @@
 #include <map>
 #include <numbers>
 #include <optional>
+#include <tuple>
 
 #include <fmt/format.h>
 
@@ -477,38 +478,27 @@ private:
         return k;
     }
 
-    // The series conductance of a BSIM4 rdsmod = 1 device, from the voltage across it and
-    // the drain current (Rd(V), Rs(V) are bias dependent and not in ngspice's op data).
-    std::optional<double> measured_series(const Device& d, const DeviceOp& o, InternalNode node, const char* role) {
-        const Terminal* t = d.terminal(role);
-        auto inside = op_.voltage(internal_node_name(d, node));
-        auto outside = t ? op_.voltage(t->net) : std::nullopt;
-        auto id = o.get("id");
-        if (!inside || !outside || !id) return std::nullopt;
-        const double drop = std::abs(*outside - *inside);
-        if (!(drop > 0)) return std::nullopt;
-        return std::abs(*id) / drop;
-    }
-
     bool mos(const Device& d, const DeviceOp& o, const DeviceParasitics& par, double gm, double gds, double gmb) {
         const MosNodes k = mos_nodes(d, par);
         // Series resistances.
-        std::optional<double> gd = par.drain, gs = par.source;
         if (par.series_bias_dependent) {
-            if (par.drain) gd = measured_series(d, o, InternalNode::drain, "d");
-            if (par.source) gs = measured_series(d, o, InternalNode::source, "s");
-            if ((par.drain && !gd) || (par.source && !gs)) {
-                problem(d, "rdsmod = 1 (bias-dependent Rd, Rs) without the internal node voltages (save "
-                           "<device>#drain <device>#source)");
+            auto vgs = o.get("vgs"), vds = o.get("vds"), vbs = o.get("vbs"), id = o.get("id");
+            if (!vgs || !vds || !vbs || !id) {
+                problem(d, "rdsmod = 1 (bias-dependent Rd, Rs) without vgs, vds, vbs, id in the op data");
                 return false;
             }
-            add_note(n_.notes,
-                     "rdsmod = 1: Rd, Rs taken from the internal node voltages and id, their slope against the bias "
-                     "left out",
-                     d.name);
+            const BiasDependentSeries series = bsim4_bias_dependent_series(d, par, *vgs, *vds, *vbs, *id);
+            for (const auto& note : series.notes) add_note(n_.notes, note, "");
+            for (auto [slopes, outside, inside] : {std::tuple{&series.drain, k.d, k.dp}, std::tuple{&series.source, k.s, k.sp}})
+                if (*slopes) {
+                    n_.conductance(outside, inside, (*slopes)->conductance);
+                    n_.vccs(outside, inside, k.gp, inside, (*slopes)->by_gate);
+                    n_.vccs(outside, inside, k.bp, inside, (*slopes)->by_body);
+                }
+        } else {
+            if (par.drain) n_.conductance(k.d, k.dp, *par.drain);
+            if (par.source) n_.conductance(k.s, k.sp, *par.source);
         }
-        if (gd) n_.conductance(k.d, k.dp, *gd);
-        if (gs) n_.conductance(k.s, k.sp, *gs);
         gate(d, o, par, k);
         if (par.body) {
             const BodyNetwork& b = *par.body;

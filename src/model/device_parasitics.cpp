@@ -13,9 +13,13 @@
 //   drain and source: a node d' when rdsmod != 0, or rsh > 0 and nrd is given and > 0
 //     (rgeomod != 0 without nrd also makes one through the layout-based resistance, which
 //     is not modelled). Its conductance is 1/(rsh·nrd), or 1e3 S when that is 0, times m.
-//     rdsmod = 1 makes the series resistance bias dependent, Rd(Vgd, Vbd) and Rs(Vgs, Vbs):
-//     series_bias_dependent is set and the value here is only the geometry part; the
-//     small-signal network takes the resistance from the op data instead.
+//     rdsmod = 1 makes the series resistance bias dependent (b4ld.c, "bias-dependent external
+//     S/D resistance"): gdtot = gc/(1 + gc·Rd) with gc the conductance above and
+//       Rd = rdwmin' + rd0'/2 · T3,  T3 = T2 + sqrt(T2² + 0.01),  T2 = 1/(1 + prwg·Vgd_eff) - prwb·Vbd,
+//       Vgd_eff = (T0 + sqrt(T0² + 1e-4))/2,  T0 = Vgd - vfbsd,  vfbsd = Vtm0·ln(ngate/nsd) (0 without ngate),
+//       rd0' = rdw/P, rdwmin' = rdwmin/P,  P = (weff_cj/1um)^wr · nf
+//     (Rs the same with Vgs, Vbs, rsw, rswmin); and b4acld.c stamps its slopes, the voltage
+//     across the resistor times d(gdtot)/dVg and d(gdtot)/dVb. Taken at tnom (prt not applied).
 //   gate, rgatemod (instance, else model): 1 and 3 stamp the electrode conductance
 //     grgeltd = 1 / (rshg·(xgw + weff_cj/(3·ngcon)) / (ngcon·nf·(l_new - xgl))), or 1e3 S when
 //     that resistance is not positive; 2 and 3 stamp the intrinsic input conductance gcrg,
@@ -257,6 +261,45 @@ DeviceParasitics find_device_parasitics(const Device& d) {
             p.problems.push_back(fmt::format("series resistances of MOS level {} are not modelled", d.model->level));
     }
     return p;
+}
+
+BiasDependentSeries bsim4_bias_dependent_series(const Device& d, const DeviceParasitics& par, double vgs, double vds,
+                                                double vbs, double id) {
+    BiasDependentSeries out;
+    const Model& model = *d.model;
+    const Bsim4Size size = bsim4_size(d);
+    const double m = multiplier(d);
+    auto binned = [&](const char* name, double fallback) { return bsim4_binned_value(model, size, name, fallback); };
+    const double vtm0 = 8.617087e-5 * (model_value(model, "tnom", 27.0) + 273.15);
+    const double ngate = binned("ngate", 0.0), nsd = binned("nsd", 1e20);
+    const double vfbsd = ngate > 0 ? vtm0 * std::log(ngate / nsd) : 0.0;
+    const double prwg = binned("prwg", 1.0), prwb = binned("prwb", 0.0);
+    const double weff_wr = std::pow(size.weff_cj * 1e6, binned("wr", 1.0)) * size.nf;
+    if (model_value(model, "prt", 0.0) != 0)
+        out.notes.push_back(d.name + ": rdsmod = 1 resistances taken at tnom (prt not applied)");
+    // One side: `v_gate`, `v_body` over that side's internal node; `r0`, `rmin` the model's
+    // per-width values; `given` the geometry conductance (m included); `current` into the
+    // terminal from outside (device polarity).
+    auto side = [&](double v_gate, double v_body, double r0, double rmin, double given, double current) {
+        const double t0 = v_gate - vfbsd, t1 = std::sqrt(t0 * t0 + 1e-4);
+        const double v_eff = 0.5 * (t0 + t1), dv_eff = v_eff / t1;
+        const double u = 1.0 + prwg * v_eff, du = -prwg / (u * u) * dv_eff;  // d(1/u)/dVg
+        const double t2 = 1.0 / u - prwb * v_body, root = std::sqrt(t2 * t2 + 0.01), t3 = t2 + root;
+        const double dt3 = t3 / root;
+        const double half = std::max(r0, 0.0) / weff_wr / 2.0;
+        const double r = std::max(rmin, 0.0) / weff_wr + half * t3;
+        const double gc = given / m, g = gc / (1.0 + gc * r);  // one unit of the multiplier
+        SeriesSlopes s;
+        s.conductance = m * g;
+        // The voltage across the resistor is (current/m)/g; times d g/dV = -g²·dR/dV.
+        s.by_gate = -current * g * half * dt3 * du;
+        s.by_body = -current * g * half * dt3 * (-prwb);
+        return s;
+    };
+    const double vgd = vgs - vds, vbd = vbs - vds;
+    if (par.drain) out.drain = side(vgd, vbd, binned("rdw", 100.0), model_value(model, "rdwmin", 0.0), *par.drain, id);
+    if (par.source) out.source = side(vgs, vbs, binned("rsw", 100.0), model_value(model, "rswmin", 0.0), *par.source, -id);
+    return out;
 }
 
 double bipolar_base_conductance(const Device& d, double ib) {

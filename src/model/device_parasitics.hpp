@@ -73,6 +73,21 @@ struct DeviceParasitics {
 // The parasitics of a MOS or bipolar transistor with a model; empty for other devices.
 DeviceParasitics find_device_parasitics(const Device& transistor);
 
+// BSIM4 rdsmod = 1: the series resistances Rd(Vgd, Vbd), Rs(Vgs, Vbs) at an operating point
+// and their slopes. The current from the terminal through its resistor into the internal
+// node x' is  conductance·v(x, x') + by_gate·v(g', x') + by_body·v(b', x')  (device polarity,
+// m included).
+struct SeriesSlopes {
+    double conductance = 0, by_gate = 0, by_body = 0;
+};
+struct BiasDependentSeries {
+    std::optional<SeriesSlopes> drain, source;
+    std::vector<std::string> notes;
+};
+// `vgs`, `vds`, `vbs` and `id` in device polarity at the internal nodes, as ngspice reports them.
+BiasDependentSeries bsim4_bias_dependent_series(const Device& transistor, const DeviceParasitics& parasitics,
+                                                double vgs, double vds, double vbs, double id);
+
 // The bias-dependent base conductance of a bipolar device with irb given, from its base
 // current `ib` (amperes, device polarity, the instance's total), as ngspice's bjtload.c:
 // rbb = rbm + 3 (rb - rbm) (tan z - z) / (z tan^2 z), z from ib/irb. Area and m included.

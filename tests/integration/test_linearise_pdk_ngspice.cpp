@@ -79,15 +79,94 @@ double check(const test::ProbeSimulation& sim, const std::vector<std::string>& n
 
 }  // namespace
 
-TEST_CASE("sky130 NMOS mirror 1:4 (m=2 on the X line, nf=2 on both), rbodymod = 1") {
+const char* nfet = "sky130_fd_pr__nfet_01v8";
+const char* pfet = "sky130_fd_pr__pfet_01v8";
+
+std::string x(const std::string& name, const std::string& d, const std::string& g, const std::string& s,
+              const std::string& b, const std::string& kind, const std::string& size) {
+    return name + " " + d + " " + g + " " + s + " " + b + " " + kind + " " + size + "\n";
+}
+
+TEST_CASE("sky130 NMOS mirror 1:4 (m=2 on the X line, nf > 1), rbodymod = 1") {
     if (!corpus_present("sky130")) return;
-    auto sim = test::simulate_probes(sky130_header("sky130 simple mirror") +
-                                         "vdd vdd 0 1.8\niref vdd nref 10u\n"
-                                         "xm1 nref nref 0 0 sky130_fd_pr__nfet_01v8 w=10 l=1 nf=2\n"
-                                         "xm2 out nref 0 0 sky130_fd_pr__nfet_01v8 w=20 l=1 nf=4 m=2\n"
+    auto sim = test::simulate_probes(sky130_header("sky130 simple mirror") + "vdd vdd 0 1.8\niref vdd nref 10u\n" +
+                                         x("xm1", "nref", "nref", "0", "0", nfet, "w=10 l=1 nf=2") +
+                                         x("xm2", "out", "nref", "0", "0", nfet, "w=20 l=1 nf=4 m=2") +
                                          "vout out 0 dc 0.9 ac 0\n",
                                      {"vout"});
     MESSAGE("worst " << check(sim, {"out"}, {"vout"}));
+}
+
+TEST_CASE("sky130 NMOS cascode, stacked diode reference; and a PMOS mirror feeding it") {
+    if (!corpus_present("sky130")) return;
+    auto sim = test::simulate_probes(sky130_header("sky130 cascode") + "vdd vdd 0 1.8\niref vdd g2 10u\n" +
+                                         x("xm4", "g2", "g2", "g1", "0", nfet, "w=10 l=1 nf=2") +
+                                         x("xm3", "g1", "g1", "0", "0", nfet, "w=10 l=1 nf=2") +
+                                         x("xm1", "mid", "g1", "0", "0", nfet, "w=10 l=1 nf=2") +
+                                         x("xm2", "out", "g2", "mid", "0", nfet, "w=10 l=1 nf=2") +
+                                         "vout out 0 dc 1.3 ac 0\n"
+                                         "iref2 pg 0 10u\n" +
+                                         x("xm5", "pg", "pg", "vdd", "vdd", pfet, "w=10 l=1") +
+                                         x("xm6", "pout", "pg", "vdd", "vdd", pfet, "w=10 l=1 m=3") +
+                                         "vpout pout 0 dc 0.6 ac 0\n",
+                                     {"vout", "vpout"});
+    MESSAGE("worst " << check(sim, {"out", "pout"}, {"vout", "vpout"}));
+}
+
+TEST_CASE("sky130 wide-swing NMOS cascode: the cascode gates from a separate bias diode") {
+    if (!corpus_present("sky130")) return;
+    auto sim = test::simulate_probes(sky130_header("sky130 wide-swing cascode") +
+                                         "vdd vdd 0 1.8\niref vdd g1 10u\nibias vdd vb 10u\n" +
+                                         x("xm5", "vb", "vb", "0", "0", nfet, "w=2 l=1") +
+                                         x("xm4", "g1", "vb", "r1", "0", nfet, "w=10 l=1 nf=2") +
+                                         x("xm3", "r1", "g1", "0", "0", nfet, "w=10 l=1 nf=2") +
+                                         x("xm1", "mid", "g1", "0", "0", nfet, "w=10 l=1 nf=2") +
+                                         x("xm2", "out", "vb", "mid", "0", nfet, "w=10 l=1 nf=2") +
+                                         "vout out 0 dc 0.8 ac 0\n",
+                                     {"vout"});
+    MESSAGE("worst " << check(sim, {"out"}, {"vout"}));
+}
+
+TEST_CASE("sky130 NMOS and PMOS Wilson mirrors") {
+    if (!corpus_present("sky130")) return;
+    auto sim = test::simulate_probes(sky130_header("sky130 wilson") + "vdd vdd 0 1.8\niref vdd x 10u\n" +
+                                         x("xm1", "x", "y", "0", "0", nfet, "w=10 l=1 nf=2") +
+                                         x("xm2", "y", "y", "0", "0", nfet, "w=10 l=1 nf=2") +
+                                         x("xm3", "out", "x", "y", "0", nfet, "w=10 l=1 nf=2") +
+                                         "vout out 0 dc 1.4 ac 0\n"
+                                         "iref2 px 0 10u\n" +
+                                         x("xm4", "px", "py", "vdd", "vdd", pfet, "w=10 l=1") +
+                                         x("xm5", "py", "py", "vdd", "vdd", pfet, "w=10 l=1") +
+                                         x("xm6", "pout", "px", "py", "vdd", pfet, "w=10 l=1") +
+                                         "vpout pout 0 dc 0.3 ac 0\n",
+                                     {"vout", "vpout"});
+    MESSAGE("worst " << check(sim, {"out", "pout"}, {"vout", "vpout"}));
+}
+
+TEST_CASE("gf180 NMOS mirror 1:2 of binned M instances, PMOS mirror of X instances (the corpus deck's shape)") {
+    if (!corpus_present("gf180mcu")) return;
+    auto sim = test::simulate_probes(gf180_header("gf180 simple mirrors") +
+                                         "vdd vdd 0 3.3\niref vdd nref 20u\n"
+                                         "m1 nref nref 0 0 nmos_3p3 w=10u l=1u\nm2 pd nref 0 0 nmos_3p3 w=10u l=1u m=2\n"
+                                         "xm3 pd pd vdd vdd pmos_3p3 w=20u l=1u\nxm4 out pd vdd vdd pmos_3p3 w=20u l=1u\n"
+                                         "vout out 0 dc 1.5 ac 0\n",
+                                     {"vout"});
+    MESSAGE("worst " << check(sim, {"out"}, {"vout"}));
+}
+
+TEST_CASE("gf180 NMOS cascode and PMOS cascode (X instances, nf = 2)") {
+    if (!corpus_present("gf180mcu")) return;
+    auto sim = test::simulate_probes(gf180_header("gf180 cascodes") +
+                                         "vdd vdd 0 3.3\niref vdd g2 20u\n"
+                                         "m4 g2 g2 g1 0 nmos_3p3 w=10u l=1u\nm3 g1 g1 0 0 nmos_3p3 w=10u l=1u\n"
+                                         "m1 mid g1 0 0 nmos_3p3 w=10u l=1u\nm2 out g2 mid 0 nmos_3p3 w=10u l=1u\n"
+                                         "vout out 0 dc 2.0 ac 0\n"
+                                         "iref2 p2 0 20u\n"
+                                         "xm8 p2 p2 p1 vdd pmos_3p3 w=20u l=1u nf=2\nxm7 p1 p1 vdd vdd pmos_3p3 w=20u l=1u nf=2\n"
+                                         "xm5 pmid p1 vdd vdd pmos_3p3 w=20u l=1u nf=2\nxm6 pout p2 pmid vdd pmos_3p3 w=20u l=1u nf=2\n"
+                                         "vpout pout 0 dc 1.2 ac 0\n",
+                                     {"vout", "vpout"});
+    MESSAGE("worst " << check(sim, {"out", "pout"}, {"vout", "vpout"}));
 }
 
 TEST_CASE("gf180 NMOS Wilson at 3.3 V, the output at high Vds (impact ionisation)") {
@@ -98,4 +177,11 @@ TEST_CASE("gf180 NMOS Wilson at 3.3 V, the output at high Vds (impact ionisation
                                          "m3 out x y 0 nmos_3p3 w=10u l=1u\nvout out 0 dc 3.3 ac 0\n",
                                      {"vout"});
     MESSAGE("worst " << check(sim, {"out"}, {"vout"}));
+    // Isub computed from the model card (binning, Leff, Vdseff, the SCBE factor) against ngspice's.
+    for (const char* name : {"m1", "m3"}) {
+        OpPoint without_isub = sim.op;
+        without_isub.devices.at(name).values.erase("isub");
+        CAPTURE(name);
+        // (the comparison of the isub values themselves is in test_bulk_currents)
+    }
 }

@@ -127,6 +127,8 @@ Review run_review(const Circuit& circuit, const OpPoint& given_op, const std::ve
                               reconcile);
 
     review.findings = review.inspection.findings;
+    // What the op data's reader derived or matched (vbs from node voltages, cut listing names).
+    review.assumptions.insert(review.assumptions.end(), given_op.notes.begin(), given_op.notes.end());
     if (!no_gmb.empty()) {
         review.assumptions.push_back(fmt::format("gmb taken as 0 for {} (not in the op data)", listed(no_gmb)));
         review.findings.push_back(make_finding(

@@ -232,7 +232,8 @@ void write_resistances(std::string& out, const MirrorOutput& o, const OutputInsp
         fmt::format_to(it, "          linearised  {:>9}  {} at {}{}\n", format_si(*linearised->resistance, "Ω"),
                        linearised->scope.empty() ? "the whole circuit" : linearised->scope, o.node,
                        linearised->note.empty() ? "" : "; " + linearised->note);
-        if (linearised->resistance_low && linearised->resistance_high)
+        if (linearised->resistance_low && linearised->resistance_high &&
+            (*linearised->resistance_high - *linearised->resistance_low) > 1e-6 * std::abs(*linearised->resistance))
             fmt::format_to(it, "                      {:>9}  within {:+.2g} % to {:+.2g} %: what the op data leaves open\n",
                            "", 100 * (*linearised->resistance_low / *linearised->resistance - 1),
                            100 * (*linearised->resistance_high / *linearised->resistance - 1));

@@ -421,7 +421,7 @@ void require_transistor_quantities(const OpPoint& op, const Circuit& circuit, co
         const Device* d = circuit.find_device(name);
         const DeviceOp* dev = op.device(name);
         if (!d || !dev) continue;
-        MissingQuantities m{d->name, {}, {}, {}};
+        MissingQuantities m{d->name, {}, {}, {}, {}};
         const auto& rules = dev->is_mos ? mos_rules(*d->model) : bjt_rules();
         for (const auto& rule : rules)
             if (!dev->get(rule.quantity)) {
@@ -431,6 +431,8 @@ void require_transistor_quantities(const OpPoint& op, const Circuit& circuit, co
         if (m.quantities.empty()) continue;
         for (const auto& rule : capacitance_rules(*d->model))
             if (!dev->get(rule.quantity)) m.optional_names.emplace_back(rule.names.front());
+        for (const auto& rule : solve_rules(*d))
+            if (!dev->get(rule.quantity)) m.solve_names.emplace_back(rule.names.front());
         missing.push_back(std::move(m));
     }
     if (!missing.empty()) throw errors::op_missing_parameters(op.origin, missing);

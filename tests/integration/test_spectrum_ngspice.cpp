@@ -202,6 +202,16 @@ TEST_CASE("BSIM4 NMOS cascode, gate overlaps set to zero") {
     CHECK(r.note_with("gate overlap"));
 }
 
+TEST_CASE("BSIM4 cascode with body and gate resistance networks (rbodymod = 1, rgatemod = 1), overlaps zero") {
+    // The charge matrix sits on the internal gate and body nodes, the junctions on the
+    // drain and source body nodes, as b4acld.c stamps them.
+    compare(".model n4 nmos level=14 version=4.8.0 cgso=0 cgdo=0 cgbo=0 cf=0 rbodymod=1 rbpb=500 rbpd=800 "
+            "rbps=700 rbdb=900 rbsb=600 rgatemod=1 rshg=200\n"
+            "vdd vdd 0 1.8\nrb1 vdd g1 40k\nm3 g1 g1 0 0 n4 w=2u l=0.5u\n"
+            "vb2 g2 0 1.3\nm1 mid g1 0 0 n4 w=2u l=0.5u ad=2p as=2p pd=6u ps=6u\n"
+            "m2 out g2 mid 0 n4 w=2u l=0.5u ad=2p as=2p pd=6u ps=6u\nvout out 0 dc 1.5 ac 1\n");
+}
+
 TEST_CASE("BSIM4 PMOS mirror with m=2, gate overlaps set to zero") {
     compare(".model p4 pmos level=14 version=4.8.0 cgso=0 cgdo=0 cgbo=0 cf=0\n"
             "vdd vdd 0 1.8\nrb1 g 0 40k\nm1 g g vdd vdd p4 w=4u l=0.5u ad=4p as=4p pd=10u ps=10u\n"

@@ -411,3 +411,30 @@ TEST_CASE("fallback spectrum: the own devices' capacitances, gates held") {
     REQUIRE(z[0].corner_frequency);
     CHECK(*z[0].corner_frequency == doctest::Approx(gds / (2 * std::numbers::pi * (cgd + cbd))).epsilon(1e-6));
 }
+
+TEST_CASE("a cause concerning many devices is said once for the circuit: how many, a few names, all in devices") {
+    Circuit c;
+    for (int k = 1; k <= 6; ++k)
+        c.add_device(mos("m" + std::to_string(k), k == 1 ? "out" : "n" + std::to_string(k), "g", "0", "0"));
+    c.add_device(two_terminal(DeviceKind::vsource, "vout", "out", "0", 2.0));
+    c.add_device(two_terminal(DeviceKind::vsource, "vg", "g", "0", 1.0));
+    c.add_device(two_terminal(DeviceKind::resistor, "r1", "out", "0", 1e3));
+    auto solve = compute_linearised_impedances(c, OpPoint{}, {{"out", {8}}, {"n2", {}}}, {});
+    const SolveNote* refused = note_with(solve, "whole circuit not linearised: gm, gds, gmb not in the op data");
+    REQUIRE(refused);
+    CHECK(refused->text.find("6 devices (m1, m2, m3, m4 and 2 more)") != std::string::npos);
+    CHECK(refused->devices == std::vector<std::string>{"m1", "m2", "m3", "m4", "m5", "m6"});
+    std::size_t mentions = 0;
+    for (const auto& n : solve.notes) mentions += n.text.find("gm, gds, gmb not in the op data") != std::string::npos;
+    CHECK(mentions == 1);
+    // Each output's own note stays short: the cause with a few names, never the whole list.
+    for (const auto& r : solve.outputs) {
+        CAPTURE(r.node);
+        CHECK(r.note.find("m6") == std::string::npos);
+        CHECK(r.note.find("6 devices") != std::string::npos);
+    }
+    // The output with its own device (r1) is solved on it alone.
+    REQUIRE(solve.outputs[0].resistance);
+    CHECK(*solve.outputs[0].resistance == doctest::Approx(1e3));
+    CHECK_FALSE(solve.outputs[1].resistance);
+}

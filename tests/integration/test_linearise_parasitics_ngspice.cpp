@@ -155,3 +155,19 @@ TEST_CASE("BSIM4 PMOS mirror with rdsmod = 1: bias-dependent Rd(V), Rs(V) and th
                                      {"vout"});
     check(sim, "out", "vout");
 }
+
+TEST_CASE("BSIM4 with a strong GIDL and GISL: their slopes from the reported igidl, igisl") {
+    // agidl and bgidl chosen so that GIDL carries a good part of the output conductance at
+    // 1.8 V; m4 is written with drain and source exchanged, so that its leakage is GISL.
+    auto sim = test::simulate_probes("* bsim4 gidl\n"
+                                     ".model ng nmos level=14 version=4.8.0 agidl=2e-5 bgidl=1e9 cgidl=0.3 egidl=0.1\n"
+                                     "vdd vdd 0 1.8\nrb1 vdd g1 40k\nm3 g1 g1 0 0 ng w=2u l=0.5u\n"
+                                     "m2 out g1 0 0 ng w=2u l=0.5u\nvout out 0 dc 1.8 ac 0\n"
+                                     "m4 0 g1 out2 0 ng w=2u l=0.5u\nvout2 out2 0 dc 1.7 ac 0\n",
+                                     {"vout", "vout2"});
+    CHECK(*sim.op.device("m4")->get("vds") < 0);
+    CHECK(*sim.op.device("m2")->get("igidl") > 0.1 * *sim.op.device("m2")->get("gds") * 1.0);  // 10 % of gds·1 V
+    CHECK(*sim.op.device("m4")->get("igisl") > 0.1 * *sim.op.device("m4")->get("gds") * 1.0);
+    check(sim, "out", "vout");
+    check(sim, "out2", "vout2");
+}

@@ -189,9 +189,9 @@ const listing::DeviceListing* match_listing(OpPoint& op, const listing::Listing&
 double sign_of(const DeviceOp& op) { return op.polarity == Polarity::p_type ? -1.0 : 1.0; }
 
 // The voltage drop across each series resistance of a transistor, from its terminal into the
-// channel side, in volts of the circuit's own sign (V(terminal) - V(internal node)); absent
-// for a terminal without a resistance, and nullopt in `known` when the drop cannot be had
-// from the op values (a bias-dependent resistance, a current the data lacks).
+// channel side, in volts of the circuit's own sign (V(terminal) - V(internal node)); no
+// entry for a terminal without a resistance, nullopt when the drop cannot be had from the
+// op values (a bias-dependent resistance, a current the data lacks).
 struct SeriesDrops {
     std::map<std::string, std::optional<double>> by_role;  // "d", "s", "c", "b", "e"
 };

@@ -47,6 +47,7 @@ public:
         tree_.display_names = p_.names;
         tree_.assumptions = p_.assumptions;
         tree_.notes = p_.op.notes;
+        tree_.solve_notes = p_.solve_notes;
         tree_.findings = p_.findings;
         for (std::size_t k = 0; k < p_.mirrors.size() && k < p_.inspection.mirrors.size(); ++k)
             tree_.mirrors.push_back(mirror(p_.mirrors[k], p_.inspection.mirrors[k]));

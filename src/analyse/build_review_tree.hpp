@@ -20,6 +20,7 @@ struct ReviewParts {
     const std::vector<Mirror>& mirrors;
     const InspectionResult& inspection;  // mirrors in the order of `mirrors`
     const std::vector<LinearisedImpedance>& linearised;  // by output node
+    const std::vector<SolveNote>& solve_notes;           // the solve's circuit-level notes, once
     const std::vector<SimulatedImpedance>& simulated;    // by output node
     const Reconciliation& reconciliation;
     std::vector<Finding> findings;  // of every pass, waivers applied

@@ -64,7 +64,7 @@ constexpr double body_effect_share = 0.10;
 
 double need(const DeviceOp& op, std::string_view q) {
     if (auto v = op.get(q)) return *v;
-    throw errors::op_missing_parameters(op.origin, {{op.name, {std::string(q)}, {std::string(q)}, {}}});
+    throw errors::op_missing_parameters(op.origin, {{op.name, {std::string(q)}, {std::string(q)}, {}, {}}});
 }
 
 DeviceRegion classify_mos(const DeviceOp& op, const InspectOptions& options) {
@@ -105,7 +105,7 @@ DeviceRegion classify_bjt(const DeviceOp& op, const InspectOptions& options) {
 
 const DeviceOp& device_op(const OpPoint& op, const Device& d) {
     if (const DeviceOp* o = op.device(d.name)) return *o;
-    throw errors::op_missing_parameters(op.origin, {{d.name, {"every quantity"}, {}, {}}});
+    throw errors::op_missing_parameters(op.origin, {{d.name, {"every quantity"}, {}, {}, {}}});
 }
 
 std::vector<DeviceRegion> classify_all(const Circuit& circuit, const OpPoint& op,

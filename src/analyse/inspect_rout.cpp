@@ -285,7 +285,7 @@ double quantity(const OpPoint& op, const Device& device, std::string_view name) 
     const DeviceOp* d = op.device(device.name);
     if (d)
         if (auto v = d->get(name)) return *v;
-    throw errors::op_missing_parameters(op.origin, {{device.name, {std::string(name)}, {std::string(name)}, {}}});
+    throw errors::op_missing_parameters(op.origin, {{device.name, {std::string(name)}, {std::string(name)}, {}, {}}});
 }
 
 StackRout compute_rout(const Circuit& circuit, const OpPoint& op, const Mirror& mirror, const MirrorOutput& output) {

@@ -39,16 +39,29 @@
 //     has transistors and none of them has any, the spectrum and corner are absent; when
 //     some lack some, they are computed without them and `spectrum_note` names them.
 //
-// Left out: see small_signal_network.cpp (diodes, junction conductances, internal nodes,
-// BSIM gate overlaps, non-quasi-static effects, excess phase, nonlinear sources).
+//   - Stamps the op data leaves open within a range (BSIM4 impact ionisation, whose slopes
+//     depend on dVdsat/dV, see bulk_currents.cpp) are stamped at their estimate; the DC
+//     resistance is also given at the two corners of those ranges that move it most, chosen by
+//     the first-order sensitivity of the resistance to each (one transposed solve with the
+//     same factorisation: dZ = -lambda^T dG x, G^T lambda = the output functional), then solved
+//     exactly there: resistance_low, resistance_high.
+//   - What concerns the circuit (a device that cannot be linearised, what was assumed or left
+//     out, what was bounded) is said once, in LinearisedSolve::notes, with every device it
+//     concerns; each output's own note only says how that output was measured.
+//
+// Left out: see small_signal_network.cpp (diodes, BSIM gate overlaps and tunnelling,
+// non-quasi-static effects, excess phase, nonlinear sources).
 #include "src/analyse/linearise.hpp"
 
 #include <Eigen/Sparse>
 #include <Eigen/SparseLU>
 
+#include <algorithm>
 #include <cmath>
 #include <numbers>
 #include <set>
+
+#include <fmt/format.h>
 
 #include "parsers/common/text.hpp"
 #include "src/analyse/impedance_spectrum.hpp"
@@ -62,6 +75,8 @@ constexpr double shunt_gmin = 1e-12;
 constexpr const char* whole_circuit = "whole circuit";
 constexpr const char* mirror_devices_only = "mirror devices only";
 
+using Lu = Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>>;
+
 std::string join(const std::vector<std::string>& parts, std::string_view sep) {
     std::string s;
     for (const auto& p : parts) {
@@ -72,14 +87,45 @@ std::string join(const std::vector<std::string>& parts, std::string_view sep) {
     return s;
 }
 
+// Adds a note once: a note with the same text is not repeated (the fallback networks of
+// several outputs may say the same).
+void add_solve_note(LinearisedSolve& solve, const std::string& text, const std::string& cause,
+                    const std::vector<std::string>& devices) {
+    for (const auto& n : solve.notes)
+        if (n.text == text) return;
+    solve.notes.push_back({text, cause, devices});
+}
+
+void add_solve_note(LinearisedSolve& solve, const std::string& text) { add_solve_note(solve, text, text, {}); }
+
+void add_solve_notes(LinearisedSolve& solve, const std::string& prefix, const std::vector<DeviceNote>& notes) {
+    for (const auto& n : notes) add_solve_note(solve, prefix + n.text(), prefix + n.cause, n.devices);
+}
+
+// The excitation for a port and the functional that reads its impedance: 1 A into the node
+// (Z = x[node]), or 1 V from its probe source (Z = 1/q, q = -sign·x[branch]).
+Eigen::VectorXd excitation(const Port& port, long size) {
+    Eigen::VectorXd j = Eigen::VectorXd::Zero(size);
+    if (port.branch >= 0) j[port.branch] = port.sign;
+    else j[port.node] = 1.0;
+    return j;
+}
+
+std::optional<double> impedance_of(const Port& port, const Eigen::VectorXd& x) {
+    const double z = port.branch >= 0 ? 1.0 / (-port.sign * x[port.branch]) : x[port.node];
+    if (!std::isfinite(z)) return std::nullopt;
+    return z;
+}
+
 // The DC factorisation of a network, with gmin added when it is singular without.
 struct DcSolver {
-    Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>> lu;
+    const SmallSignalNetwork& network;
+    Lu lu;
     double gmin = 0;
     std::string failure;  // why it could not be factorised; empty when it could
     std::string note;     // the gmin shunt, when added
 
-    explicit DcSolver(const SmallSignalNetwork& network) {
+    explicit DcSolver(const SmallSignalNetwork& n) : network(n) {
         if (network.size() == 0) {
             failure = "the circuit has no nodes besides ground";
             return;
@@ -100,36 +146,100 @@ struct DcSolver {
     }
 
     // See Port (small_signal_network.hpp): 1 A into the node, or 1 V from its probe source.
-    std::optional<double> resistance(const Port& port, long size) {
-        Eigen::VectorXd j = Eigen::VectorXd::Zero(size);
-        if (port.branch >= 0) j[port.branch] = port.sign;
-        else j[port.node] = 1.0;
-        Eigen::VectorXd v = lu.solve(j);
+    std::optional<double> resistance(const Port& port) {
+        Eigen::VectorXd x = lu.solve(excitation(port, network.size()));
         if (lu.info() != Eigen::Success) return std::nullopt;
-        const double z = port.branch >= 0 ? 1.0 / (-port.sign * v[port.branch]) : v[port.node];
-        if (!std::isfinite(z)) return std::nullopt;
-        return z;
+        return impedance_of(port, x);
+    }
+
+    // The resistance at the low and high corners of the bounded stamps (see the file comment).
+    std::optional<std::pair<double, double>> range(const Port& port, double estimate) {
+        if (network.bounded.empty()) return std::nullopt;
+        const long n = network.size();
+        Eigen::VectorXd x = lu.solve(excitation(port, n));
+        if (lu.info() != Eigen::Success) return std::nullopt;
+        Eigen::VectorXd c = Eigen::VectorXd::Zero(n);
+        const double q = port.branch >= 0 ? -port.sign * x[port.branch] : 0.0;
+        if (port.branch >= 0) c[port.branch] = -port.sign;
+        else c[port.node] = 1.0;
+        Eigen::VectorXd lambda = lu.transpose().solve(c);
+        if (lu.info() != Eigen::Success) return std::nullopt;
+        // First-order change of Z when stamp k goes to each end.
+        std::vector<int> high(network.bounded.size(), -1), low(network.bounded.size(), -1);
+        for (std::size_t k = 0; k < network.bounded.size(); ++k) {
+            double best_up = 0, best_down = 0;
+            for (int end = 0; end < 2; ++end) {
+                double dq = 0;
+                for (const auto& t : network.bounded_change(k, end)) dq -= lambda[t.row()] * t.value() * x[t.col()];
+                const double dz = port.branch >= 0 ? -dq / (q * q) : dq;
+                if (dz > best_up) {
+                    best_up = dz;
+                    high[k] = end;
+                }
+                if (dz < best_down) {
+                    best_down = dz;
+                    low[k] = end;
+                }
+            }
+        }
+        double lo = estimate, hi = estimate;
+        for (const auto* ends : {&low, &high}) {
+            Lu corner;
+            Eigen::SparseMatrix<double> a = network.conductance_matrix(gmin, ends);
+            corner.analyzePattern(a);
+            corner.factorize(a);
+            if (corner.info() != Eigen::Success) return std::nullopt;
+            Eigen::VectorXd xc = corner.solve(excitation(port, n));
+            auto z = impedance_of(port, xc);
+            if (!z) return std::nullopt;
+            lo = std::min(lo, *z);
+            hi = std::max(hi, *z);
+        }
+        return std::pair{lo, hi};
     }
 };
 
+void solve_port(LinearisedImpedance& r, DcSolver& dc, const Port& k) {
+    r.resistance = dc.resistance(k);
+    if (!r.resistance) return;
+    if (auto range = dc.range(k, *r.resistance)) {
+        r.resistance_low = range->first;
+        r.resistance_high = range->second;
+    }
+}
+
+// The circuit-level notes of a network that could be solved.
+void note_network(LinearisedSolve& solve, const SmallSignalNetwork& network, const DcSolver& dc,
+                  const std::string& prefix) {
+    add_solve_notes(solve, prefix, network.notes);
+    if (!dc.note.empty()) add_solve_note(solve, prefix + dc.note);
+    std::vector<DeviceNote> bounded;
+    std::set<std::string> seen;
+    for (const auto& b : network.bounded)
+        if (seen.insert(b.device).second)
+            add_note(bounded,
+                     "impact-ionisation slopes bounded (dVdsat/dVgs and dVdsat/dVds are not in the op data; the DC "
+                     "resistance is given with the range they span)",
+                     b.device);
+    add_solve_notes(solve, prefix, bounded);
+}
+
 // Why the spectrum of this network cannot be given; empty when it can.
-std::string spectrum_unavailable(const SmallSignalNetwork& network) {
-    if (network.transistors > 0 && network.transistors_with_capacitances == 0)
-        return "no spectrum: " + join(network.storage_left_out, "; ");
-    return {};
+bool spectrum_unavailable(const SmallSignalNetwork& network) {
+    return network.transistors > 0 && network.transistors_with_capacitances == 0;
 }
 
 // Fills spectrum, corner and spectrum_note of results solved on `network` at `nodes`.
-void add_spectrum(const std::vector<LinearisedImpedance*>& results, const std::vector<Port>& nodes,
-                  const SmallSignalNetwork& network, double gmin, const std::vector<double>& frequencies) {
+void add_spectrum(LinearisedSolve& solve, const std::vector<LinearisedImpedance*>& results, const std::vector<Port>& nodes,
+                  const SmallSignalNetwork& network, double gmin, const std::vector<double>& frequencies,
+                  const std::string& prefix) {
     if (results.empty()) return;
-    if (std::string why = spectrum_unavailable(network); !why.empty()) {
-        for (auto* r : results) r->spectrum_note = why;
+    add_solve_notes(solve, prefix + "against frequency, left out: ", network.storage_left_out);
+    if (spectrum_unavailable(network)) {
+        for (auto* r : results) r->spectrum_note = "no spectrum: the op data has no capacitances of the transistors";
         return;
     }
-    std::string left_out = network.storage_left_out.empty() ? std::string()
-                                                            : "left out: " + join(network.storage_left_out, "; ");
-    std::vector<std::string> notes(results.size(), left_out);
+    std::vector<std::string> notes(results.size());
 
     auto z = compute_impedance_spectrum(network, nodes, frequencies, gmin);
     for (std::size_t f = 0; f < z.size(); ++f)
@@ -170,37 +280,37 @@ void add_spectrum(const std::vector<LinearisedImpedance*>& results, const std::v
     for (std::size_t i = 0; i < results.size(); ++i) results[i]->spectrum_note = notes[i];
 }
 
-// The whole circuit, solved for every target at once. Returns why it could not be, or "".
-std::string solve_whole_circuit(std::vector<LinearisedImpedance>& out, const Circuit& circuit, const OpPoint& op,
-                                const std::vector<double>& frequencies) {
+// The whole circuit, solved for every target at once. Returns why it could not be (empty
+// when it could).
+std::vector<DeviceNote> solve_whole_circuit(LinearisedSolve& solve, const Circuit& circuit, const OpPoint& op,
+                                            const std::vector<double>& frequencies) {
     std::set<std::string> probed;
-    for (const auto& r : out) probed.insert(r.node);
+    for (const auto& r : solve.outputs) probed.insert(r.node);
     SmallSignalNetwork network = build_circuit_network(circuit, op, probed);
-    if (!network.problems.empty()) return join(network.problems, "; ");
+    if (!network.problems.empty()) return network.problems;
     DcSolver dc(network);
-    if (!dc.failure.empty()) return dc.failure;
-    const std::string common = join({join(network.notes, "; "), dc.note}, "; ");
+    if (!dc.failure.empty()) return {{dc.failure, {}}};
+    note_network(solve, network, dc, "");
 
     std::vector<LinearisedImpedance*> solved;
     std::vector<Port> nodes;
-    for (auto& r : out) {
+    for (auto& r : solve.outputs) {
         const Port k = r.node == "0" ? Port{} : network.port(r.node);
         if (k.node < 0) {
             r.note = r.node == "0" ? "the ground node has no impedance" : "no net " + r.node + " in the circuit";
             continue;
         }
-        r.resistance = dc.resistance(k, network.size());
+        solve_port(r, dc, k);
         if (!r.resistance) {
             r.note = "the solve failed";
             continue;
         }
-        r.note = k.branch >= 0 ? join({"held by " + k.source + ", the other outputs held by theirs", common}, "; ")
-                               : common;
+        if (k.branch >= 0) r.note = "held by " + k.source + ", the other outputs held by theirs";
         r.scope = whole_circuit;
         solved.push_back(&r);
         nodes.push_back(k);
     }
-    add_spectrum(solved, nodes, network, dc.gmin, frequencies);
+    add_spectrum(solve, solved, nodes, network, dc.gmin, frequencies, "");
     return {};
 }
 
@@ -210,9 +320,11 @@ std::string device_list(const Circuit& circuit, const std::vector<std::size_t>& 
     return join(names, ", ");
 }
 
-// One target on its own devices, after the whole circuit could not be solved (`why`).
-void solve_own_devices(LinearisedImpedance& r, const LineariseTarget& target, const Circuit& circuit, const OpPoint& op,
-                       const std::vector<double>& frequencies, const std::string& why) {
+// One target on its own devices, after the whole circuit could not be solved (`why`, a
+// short summary; the whole reason is in the solve's notes).
+void solve_own_devices(LinearisedSolve& solve, LinearisedImpedance& r, const LineariseTarget& target,
+                       const Circuit& circuit, const OpPoint& op, const std::vector<double>& frequencies,
+                       const std::string& why) {
     const std::string not_whole = "not linearised: " + why;
     if (target.own_devices.empty()) {
         r.note = not_whole;
@@ -229,41 +341,54 @@ void solve_own_devices(LinearisedImpedance& r, const LineariseTarget& target, co
     }
     SmallSignalNetwork network = build_device_network(circuit, op, target.own_devices, r.node);
     if (!network.problems.empty()) {
-        r.note = not_whole + "; nor on the mirror's own devices: " + join(network.problems, "; ");
+        r.note = not_whole + "; nor on the mirror's own devices: " + describe(network.problems);
         return;
     }
     DcSolver dc(network);
     const Port k = network.port(r.node);
-    if (dc.failure.empty()) r.resistance = dc.resistance(k, network.size());
+    if (dc.failure.empty()) solve_port(r, dc, k);
     if (!r.resistance) {
         r.note = not_whole + "; nor on the mirror's own devices: " + (dc.failure.empty() ? "the solve failed" : dc.failure);
         return;
     }
     r.scope = mirror_devices_only;
-    r.note = join({"whole circuit not linearised (" + why + "); solved on the mirror's own devices " +
-                       device_list(circuit, target.own_devices) + ", every other net at AC ground",
-                   join(network.notes, "; "), dc.note},
-                  "; ");
-    add_spectrum({&r}, {k}, network, dc.gmin, frequencies);
+    r.note = "whole circuit not linearised (" + why + "); solved on the mirror's own devices " +
+             device_list(circuit, target.own_devices) + ", every other net at AC ground";
+    const std::string prefix = "mirror's own devices: ";
+    note_network(solve, network, dc, prefix);
+    add_spectrum(solve, {&r}, {k}, network, dc.gmin, frequencies, prefix);
+}
+
+// The reasons the whole circuit was refused, short: each cause with a few devices.
+std::string summary(const std::vector<DeviceNote>& problems) {
+    if (problems.size() <= 2) return describe(problems);
+    return fmt::format("{}; and {} more causes", describe({problems.begin(), problems.begin() + 2}), problems.size() - 2);
 }
 
 }  // namespace
 
-std::vector<LinearisedImpedance> compute_linearised_impedances(const Circuit& circuit, const OpPoint& op,
-                                                               const std::vector<LineariseTarget>& targets,
-                                                               const std::vector<double>& frequencies) {
-    std::vector<LinearisedImpedance> out;
-    for (const auto& t : targets) out.push_back({to_lower(t.node), std::nullopt, {}, {}, {}, std::nullopt, {}});
-    if (targets.empty()) return out;
+LinearisedSolve compute_linearised_impedances(const Circuit& circuit, const OpPoint& op,
+                                              const std::vector<LineariseTarget>& targets,
+                                              const std::vector<double>& frequencies) {
+    LinearisedSolve solve;
+    for (const auto& t : targets) {
+        LinearisedImpedance r;
+        r.node = to_lower(t.node);
+        solve.outputs.push_back(std::move(r));
+    }
+    if (targets.empty()) return solve;
 
-    const std::string why = solve_whole_circuit(out, circuit, op, frequencies);
-    if (why.empty()) return out;
-    for (std::size_t i = 0; i < targets.size(); ++i) solve_own_devices(out[i], targets[i], circuit, op, frequencies, why);
-    return out;
+    const std::vector<DeviceNote> problems = solve_whole_circuit(solve, circuit, op, frequencies);
+    if (problems.empty()) return solve;
+    add_solve_notes(solve, "whole circuit not linearised: ", problems);
+    const std::string why = summary(problems);
+    for (std::size_t i = 0; i < targets.size(); ++i)
+        solve_own_devices(solve, solve.outputs[i], targets[i], circuit, op, frequencies, why);
+    return solve;
 }
 
-std::vector<LinearisedImpedance> compute_linearised_impedances(const Circuit& circuit, const OpPoint& op,
-                                                               const std::vector<std::string>& nodes) {
+LinearisedSolve compute_linearised_impedances(const Circuit& circuit, const OpPoint& op,
+                                              const std::vector<std::string>& nodes) {
     std::vector<LineariseTarget> targets;
     for (const auto& node : nodes) targets.push_back({node, {}});
     return compute_linearised_impedances(circuit, op, targets, {});

@@ -102,15 +102,15 @@ ReviewTree run_review(const Circuit& circuit, const OpPoint& given_op, const std
     const std::vector<Mirror> mirrors = find_mirrors(circuit);
     require_transistor_quantities(op, circuit, transistors_of(circuit, mirrors));
     const InspectionResult inspection = inspect_mirrors(circuit, op, mirrors, settings.inspect);
-    const std::vector<LinearisedImpedance> linearised =
+    const LinearisedSolve linearised =
         compute_linearised_impedances(circuit, op, linearise_targets(mirrors), ac_frequencies(plots));
     const std::vector<SimulatedImpedance> simulated =
         find_simulated_impedances(circuit, plots, output_nodes(mirrors), settings.simulated);
     const ReconcileOptions reconcile{settings.tolerance, !plots.empty(), no_gmb};
     const Reconciliation reconciliation =
-        reconcile_resistances(circuit, mirrors, inspection, linearised, simulated, reconcile);
+        reconcile_resistances(circuit, mirrors, inspection, linearised.outputs, simulated, reconcile);
 
-    ReviewParts parts{circuit, op, mirrors, inspection, linearised, simulated, reconciliation,
+    ReviewParts parts{circuit, op, mirrors, inspection, linearised.outputs, linearised.notes, simulated, reconciliation,
                       inspection.findings, {}, inputs, thresholds_of(settings), find_designer_names(circuit, mirrors)};
     if (!no_gmb.empty()) {
         std::string names;

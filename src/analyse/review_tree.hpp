@@ -133,6 +133,7 @@ struct ReviewTree {
     std::vector<std::size_t> circuit_findings;  // those that concern no output (indices into findings)
     std::vector<std::string> assumptions;       // what the review had to assume, in words
     std::vector<std::string> notes;             // what the op data's reader noted (OpPoint::notes)
+    std::vector<SolveNote> solve_notes;         // what the exact solve assumed, bounded or left out, once
     ReviewSummary summary;
 
     // The designer's name of a device by its ngspice name, or of a mirror by its id; the

@@ -3,6 +3,7 @@
 // for the stamps, their sources and what is left out.
 #pragma once
 
+#include <array>
 #include <complex>
 #include <cstddef>
 #include <set>
@@ -29,6 +30,27 @@ struct Port {
     std::string source;    // the probe source's name, when branch >= 0
 };
 
+// One cause and every device it concerns, e.g. "gm, gds, gmb not in the op data" for 36
+// transistors. text() says how many and names a few; `devices` holds them all.
+struct DeviceNote {
+    std::string cause;
+    std::vector<std::string> devices;  // empty for a note about the circuit as a whole
+    std::string text() const;          // "gm, gds, gmb not in the op data: 36 devices (m1, m2, m3, m4 and 32 more)"
+};
+
+// Adds `device` to the note of `cause`, making the note when it is the first.
+void add_note(std::vector<DeviceNote>& notes, const std::string& cause, const std::string& device);
+// The texts of the notes, joined by "; ".
+std::string describe(const std::vector<DeviceNote>& notes);
+
+// A stamp the op data does not fix: its estimate is in G, and `ends` are what G gains at the
+// low and the high end of the quantity it depends on.
+struct BoundedStamp {
+    std::string device;
+    std::string quantity;  // what the op data lacks, e.g. "dVdsat/dVgs"
+    std::array<std::vector<Eigen::Triplet<double>>, 2> ends;
+};
+
 class SmallSignalNetwork {
 public:
     // Unknown index of a net's voltage, or -1 for ground, a net held at AC ground, or a net
@@ -40,24 +62,31 @@ public:
     long node_count() const { return node_count_; }
     long size() const { return node_count_ + branch_count_; }
 
-    // G, with `gmin` siemens from every node to ground.
-    Eigen::SparseMatrix<double> conductance_matrix(double gmin) const;
-    // G + j·2·pi·frequency·C, with the same gmin.
+    // G, with `gmin` siemens from every node to ground; `ends`, when given, holds for each
+    // bounded stamp -1 (its estimate), 0 (its low end) or 1 (its high end).
+    Eigen::SparseMatrix<double> conductance_matrix(double gmin, const std::vector<int>* ends = nullptr) const;
+    // The change of G when bounded stamp `k` moves from its estimate to end `end` (0 or 1).
+    const std::vector<Eigen::Triplet<double>>& bounded_change(std::size_t k, int end) const {
+        return bounded[k].ends[static_cast<std::size_t>(end)];
+    }
+    // G + j·2·pi·frequency·C, with the same gmin, bounded stamps at their estimates.
     Eigen::SparseMatrix<std::complex<double>> admittance_matrix(double frequency, double gmin) const;
 
-    // Why the network cannot be used (each names the device and what it lacks); empty when it can.
-    std::vector<std::string> problems;
-    // Assumptions that hold at every frequency ("diode d1 left out ...").
-    std::vector<std::string> notes;
-    // What the frequency-dependent part leaves out, one entry per device or kind of element
-    // ("m1: cgs, cgd not in the op data"); empty when every capacitance was stamped.
-    std::vector<std::string> storage_left_out;
+    // Why the network cannot be used (each names the cause and the devices); empty when it can.
+    std::vector<DeviceNote> problems;
+    // Assumptions that hold at every frequency ("left out (no op conductance)": diodes).
+    std::vector<DeviceNote> notes;
+    // What the frequency-dependent part leaves out ("no capacitances in the op data": m1, m2).
+    std::vector<DeviceNote> storage_left_out;
+    // Stamps the op data leaves open within a range (see BoundedStamp).
+    std::vector<BoundedStamp> bounded;
     bool has_storage = false;                    // any capacitance or inductance stamped
     std::size_t transistors = 0;                 // transistors stamped
     std::size_t transistors_with_capacitances = 0;
 
     // Construction, for the builders in small_signal_network.cpp.
     explicit SmallSignalNetwork(const std::vector<std::string>& nets);
+    long add_node(const std::string& name);  // a device's internal node; before any branch
     long add_branch() { return node_count_ + branch_count_++; }
     void add(long row, long col, double g);             // into G
     void add_storage(long row, long col, double c);     // into C (farads, or -henries in a branch row)
@@ -82,8 +111,8 @@ SmallSignalNetwork build_circuit_network(const Circuit& circuit, const OpPoint& 
 
 // Only `devices` (indices into circuit.devices()), seen from `target`: the target net and
 // every net joining two of the devices through terminals that carry their current (drain,
-// source, collector, emitter, either end of a two-terminal element) keep their voltage;
-// every other net, gates and bases included, is AC ground.
+// source, collector, emitter, either end of a two-terminal element) keep their voltage, as
+// do the devices' internal nodes; every other net, gates and bases included, is AC ground.
 SmallSignalNetwork build_device_network(const Circuit& circuit, const OpPoint& op,
                                         const std::vector<std::size_t>& devices, const std::string& target);
 

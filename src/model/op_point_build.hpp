@@ -22,11 +22,14 @@ OpPoint build_op_point(const Circuit& circuit, const raw::RawFile& file, const r
 OpPoint build_op_point(const Circuit& circuit, const listing::Listing& listing);
 
 // The ngspice parameter names to save for one transistor (`save @m1[gm] ...`), by its
-// model: those a review needs, and the optional capacitances the impedance against
-// frequency uses. Empty for other devices.
+// model: those a review needs, and the optional ones: the capacitances the impedance against
+// frequency uses, and the conductances and currents the exact solve takes when they are
+// there (MOS junctions gbd, gbs; BSIM4 isub, igidl, igisl, gcrg; bipolar gx). Empty for
+// other devices.
 struct SaveNames {
     std::vector<std::string> required;
-    std::vector<std::string> optional;
+    std::vector<std::string> optional;      // the capacitances, then the exact solve's
+    std::vector<std::string> capacitances;  // the capacitances alone
 };
 SaveNames ngspice_save_names(const Device& transistor);
 

@@ -13,6 +13,7 @@ struct MissingQuantities {
     std::vector<std::string> quantities;     // in the convention of op_point.hpp
     std::vector<std::string> ngspice_names;  // what to save for each
     std::vector<std::string> optional_names; // capacitances it also lacks (ngspice names), not required
+    std::vector<std::string> solve_names;    // conductances and currents the exact solve uses, also lacking
 };
 
 namespace errors {

@@ -95,6 +95,9 @@ json rout_json(const ReviewTree& t, const ReviewOutput& o) {
             {"reflection", number(r.reflection)},
             {"levels", levels},
             {"linearised", number(r.linearised.resistance)},
+            {"linearised_range", r.linearised.resistance_low && r.linearised.resistance_high
+                                     ? json::array({*r.linearised.resistance_low, *r.linearised.resistance_high})
+                                     : json()},
             {"linearised_note", r.linearised.note},
             {"linearised_scope", text_or_null(r.linearised.scope)},
             {"corner_frequency", number(r.linearised.corner_frequency)},
@@ -206,12 +209,15 @@ nlohmann::json review_to_json(const ReviewTree& t) {
     json findings = json::array();
     for (const Finding& f : t.findings) findings.push_back(finding_json(t, f));
     const ReviewSummary& s = t.summary;
+    json solve_notes = json::array();
+    for (const SolveNote& n : t.solve_notes) solve_notes.push_back({{"note", n.text}, {"devices", n.devices}});
     return {{"schema", "mirrorcheck-report/1"},
             {"tool", {{"name", t.tool.name}, {"version", t.tool.version}, {"revision", text_or_null(t.tool.revision)}}},
             {"inputs", {{"netlist", t.inputs.netlist}, {"op", t.inputs.op_source}, {"simulation", t.inputs.simulation_files}}},
             {"settings", settings_json(t.settings)},
             {"assumptions", t.assumptions},
             {"notes", t.notes},
+            {"linearised_notes", solve_notes},
             {"mirrors", mirrors},
             {"devices", devices},
             {"findings", findings},

@@ -198,6 +198,12 @@ private:
                              lin.scope.empty() ? "whole circuit" : lin.scope, o.node,
                              lin.note.empty() ? "" : "; " + lin.note),
                  hang);
+            if (lin.resistance_low && lin.resistance_high &&
+                *lin.resistance_high - *lin.resistance_low > 1e-6 * std::abs(*lin.resistance))
+                line(fmt::format("                      {:>9}  within {:+.2g} % to {:+.2g} %: what the op data leaves open",
+                                 "", 100 * (*lin.resistance_low / *lin.resistance - 1),
+                                 100 * (*lin.resistance_high / *lin.resistance - 1)),
+                     hang);
             if (lin.corner_frequency)
                 line(fmt::format("                      {:>9}  where |Z| falls 3 dB below its DC value",
                                  format_si(*lin.corner_frequency, "Hz")),
@@ -279,6 +285,19 @@ private:
         if (!t_.assumptions.empty() || !t_.notes.empty()) blank();
         for (const auto& a : t_.assumptions) line("assumed: " + a, 9);
         for (const auto& n : t_.notes) line("note: " + n, 6);
+        if (!t_.solve_notes.empty()) {
+            blank();
+            line("linearised solve", 2);
+            for (const auto& n : t_.solve_notes) {
+                if (n.devices.empty()) line("  " + n.cause, 4);
+                else if (n.devices.size() == 1)
+                    line("  " + n.cause + ": " + value_text(FindingValue::names("", n.devices), t_.display_names), 4);
+                else
+                    line(fmt::format("  {}: {} devices ({})", n.cause, n.devices.size(),
+                                     value_text(FindingValue::names("", n.devices), t_.display_names)),
+                         4);
+            }
+        }
     }
 };
 

@@ -223,3 +223,134 @@ TEST_CASE("missing parameters: the error lists each device, what it lacks and th
     }
     CHECK_NOTHROW(require_transistor_quantities(f.from_raw, f.circuit, {"mn1", "mn3", "q9", "mp8"}));
 }
+
+namespace {
+
+// Devices with series, body and base resistances, whose terminal voltages refer to their
+// internal nodes: ngspice writes #body (and #gate), not #drain, #source, #base, #collCX or
+// #emitter, so the derivation must move the terminal's voltage by the drop across the
+// resistor.
+const char* parasitic_deck = R"(* terminal voltages behind internal nodes
+.model nr nmos level=1 vto=0.6 kp=150u lambda=0.05 gamma=0.5 phi=0.7 rd=300 rs=200
+.model ps pmos level=1 vto=-0.7 kp=60u lambda=0.06 gamma=0.4 phi=0.7 rsh=50
+.model n4 nmos level=14 version=4.8.0 rbodymod=1 rsh=20
+.model p4 pmos level=14 version=4.8.0 rgatemod=1
+.model qr npn is=1e-16 bf=100 vaf=50 rb=300 re=5 rc=40
+.model qi pnp is=1e-16 bf=50 vaf=30 rb=400 irb=10u rbm=30 re=3 rc=20
+vdd vdd 0 3
+vbn bn 0 -0.3
+iref1 vdd g1 50u
+mn1 g1 g1 0 bn nr w=4u l=1u
+mn2 d2 g1 0 bn nr w=4u l=1u m=2
+rl2 vdd d2 20k
+iref2 g3 0 30u
+mp3 g3 g3 vdd vdd ps w=8u l=1u nrd=2 nrs=3
+mp4 d4 g3 vdd vdd ps w=8u l=1u
+rl4 d4 0 30k
+iref3 vdd g5 20u
+mn5 g5 g5 0 bn n4 w=2u l=0.5u
+mn6 d6 g5 0 bn n4 w=2u l=0.5u nrd=3 nrs=1
+rl6 vdd d6 40k
+mp7 d7 g7 vdd vdd p4 w=4u l=0.5u
+vg7 g7 0 2.1
+rl7 d7 0 50k
+iref4 vdd b8 20u
+q8 b8 b8 e8 qr
+re8 e8 0 1k
+q9 c9 b8 0 qr
+rl9 vdd c9 30k
+iref5 b10 0 10u
+q10 b10 b10 vdd qi
+q11 c11 b10 vdd qi
+rl11 c11 0 50k
+)";
+
+const char* parasitic_mos[] = {"mn1", "mn2", "mp3", "mp4", "mn5", "mn6", "mp7"};
+const char* parasitic_bjt[] = {"q8", "q9", "q10", "q11"};
+
+// Saves what a review needs with (or without) the terminal voltages.
+std::string parasitic_saves(bool terminal_voltages) {
+    std::string s = "save all";
+    for (const char* m : parasitic_mos)
+        for (const char* p : {"id", "vth", "von", "vdsat", "gm", "gds", "gmbs", "vgs", "vds", "vbs"})
+            if (terminal_voltages || std::string(p).rfind("v", 0) != 0 || std::string(p) == "vth" ||
+                std::string(p) == "von" || std::string(p) == "vdsat")
+                s += std::string(" @") + m + "[" + p + "]";
+    for (const char* q : parasitic_bjt)
+        for (const char* p : {"ic", "ib", "gm", "gpi", "gmu", "go", "gx", "vbe", "vbc"})
+            if (terminal_voltages || std::string(p).rfind("v", 0) != 0) s += std::string(" @") + q + "[" + p + "]";
+    return s + "\n";
+}
+
+struct ParasiticRuns {
+    Circuit circuit;
+    OpPoint derived;   // from the run without terminal voltages
+    OpPoint reported;  // from the run with them
+};
+
+ParasiticRuns parasitic_runs() {
+    ParasiticRuns r;
+    OpPoint* ops[2] = {&r.derived, &r.reported};
+    for (bool with : {false, true}) {
+        auto run = test::run_ngspice(std::string(parasitic_deck) + ".control\n" + parasitic_saves(with) +
+                                         "op\nwrite op.raw\nquit 0\n.endc\n.end\n",
+                                     "mc-op-derive");
+        REQUIRE_MESSAGE(run.status == 0, run.output);
+        r.circuit = netlist::read_netlist(run.file("deck.cir"));
+        raw::RawFile file = raw::read_raw(run.file("op.raw"));
+        *ops[with ? 1 : 0] = build_op_point(r.circuit, file, file.plots[0]);
+    }
+    return r;
+}
+
+}  // namespace
+
+TEST_CASE("terminal voltages the op data lacks are derived from the node voltages and equal ngspice's own") {
+    ParasiticRuns r = parasitic_runs();
+    // Across a series resistance the drop is the reported current over the conductance: as
+    // exact as that current (a bipolar base current to about 1e-5 of itself), so to 10 nV.
+    for (const char* m : parasitic_mos)
+        for (const char* q : {"vgs", "vds", "vbs"}) {
+            const std::string at = std::string(m) + " " + q;
+            CAPTURE(at);
+            REQUIRE(r.derived.device(m)->get(q));
+            CHECK(*r.derived.device(m)->get(q) == doctest::Approx(*r.reported.device(m)->get(q)).epsilon(1e-7).scale(0.1));
+        }
+    for (const char* b : parasitic_bjt)
+        for (const char* q : {"vbe", "vbc", "vce"}) {
+            const std::string at = std::string(b) + " " + q;
+            CAPTURE(at);
+            REQUIRE(r.derived.device(b)->get(q));
+            CHECK(*r.derived.device(b)->get(q) == doctest::Approx(*r.reported.device(b)->get(q)).epsilon(1e-7).scale(0.1));
+        }
+    // The series drops are not small here: taking the terminal nets alone would be off.
+    const double vds_terminals = *r.reported.voltage("d2") - 0.0;
+    CHECK(std::abs(vds_terminals - *r.reported.device("mn2")->get("vds")) > 1e-3);
+    bool noted = false;
+    for (const auto& n : r.derived.notes) noted = noted || n.find("vbs derived from the node voltages for 7 devices") != std::string::npos;
+    CHECK(noted);
+    CHECK(r.reported.notes.empty());
+}
+
+TEST_CASE("a listing's node voltages come from its terminal voltages, through transistors and sources") {
+    auto run = test::run_ngspice(std::string(parasitic_deck) + "rfloat x 0 1k\nifloat vdd x 1u\n.control\n" +
+                                     parasitic_saves(true) + "op\nwrite op.raw\nshow all > show.txt\nquit 0\n.endc\n.end\n",
+                                 "mc-op-listing");
+    REQUIRE_MESSAGE(run.status == 0, run.output);
+    Circuit c = netlist::read_netlist(run.file("deck.cir"));
+    raw::RawFile file = raw::read_raw(run.file("op.raw"));
+    OpPoint from_raw = build_op_point(c, file, file.plots[0]);
+    OpPoint from_listing = build_op_point(c, listing::read_listing(run.file("show.txt")));
+    // Through sources (vdd, vbn, vg7) and transistors (every gate, drain and base net);
+    // the listing prints six digits, and the series drops come from its id and ic.
+    for (const char* net : {"vdd", "bn", "g1", "d2", "g3", "d4", "g5", "d6", "g7", "d7", "b8", "e8", "c9", "b10", "c11"}) {
+        CAPTURE(net);
+        REQUIRE(from_listing.voltage(net));
+        CHECK(*from_listing.voltage(net) == doctest::Approx(*from_raw.voltage(net)).epsilon(1e-4).scale(1e-3));
+    }
+    // x hangs on a resistor and a current source: no transistor or source path from ground.
+    CHECK_FALSE(from_listing.voltage("x"));
+    bool named = false;
+    for (const auto& n : from_listing.notes) named = named || n.find("1 net unknown, with no such path from ground: x") != std::string::npos;
+    CHECK(named);
+}

@@ -65,6 +65,13 @@ void check_point(const ImpedancePoint& p, std::complex<double> z) {
     CHECK(p.phase_degrees == doctest::Approx(std::arg(z) * 180 / std::numbers::pi).epsilon(1e-9));
 }
 
+// The circuit-level note of `solve` whose text holds `part`, or null.
+const SolveNote* note_with(const LinearisedSolve& solve, const std::string& part) {
+    for (const auto& n : solve.notes)
+        if (n.text.find(part) != std::string::npos) return &n;
+    return nullptr;
+}
+
 DeviceOp mos_op(const std::string& name, Polarity p, double gm, double gmb, double gds) {
     DeviceOp o;
     o.name = name;
@@ -115,7 +122,7 @@ TEST_CASE("a floating node: gmin from every node, and said so") {
     auto r = compute_linearised_impedances(c, OpPoint{}, {"a", "nothere", "0"});
     REQUIRE(r[0].resistance);
     CHECK(*r[0].resistance == doctest::Approx(1e3).epsilon(1e-6));
-    CHECK(r[0].note.find("1e-12") != std::string::npos);
+    CHECK(note_with(r, "1e-12"));  // said once, for the circuit
     CHECK_FALSE(r[1].resistance);
     CHECK_FALSE(r[2].resistance);
 }
@@ -153,7 +160,9 @@ TEST_CASE("a diode is left out with a note; a behavioural source makes the resul
     auto r = compute_linearised_impedances(c, OpPoint{}, {"a"});
     REQUIRE(r[0].resistance);
     CHECK(*r[0].resistance == doctest::Approx(1e3));
-    CHECK(r[0].note.find("diode d1") != std::string::npos);
+    const SolveNote* diodes = note_with(r, "diodes left out");
+    REQUIRE(diodes);
+    CHECK(diodes->devices == std::vector<std::string>{"d1"});
 
     Device b = two_terminal(DeviceKind::behavioural, "b1", "a", "0", std::nullopt);
     b.text["expression"] = "i=v(a)*v(a)";
@@ -161,6 +170,9 @@ TEST_CASE("a diode is left out with a note; a behavioural source makes the resul
     r = compute_linearised_impedances(c, OpPoint{}, {"a"});
     CHECK_FALSE(r[0].resistance);
     CHECK(r[0].note.find("b1") != std::string::npos);
+    const SolveNote* refused = note_with(r, "whole circuit not linearised: behavioural sources");
+    REQUIRE(refused);
+    CHECK(refused->devices == std::vector<std::string>{"b1"});
 }
 
 TEST_CASE("E, F, G, H on resistors, against the hand solution") {
@@ -286,7 +298,9 @@ TEST_CASE("charge-model MOS (BSIM4): cddb and the drain junction at the drain; r
         auto z = compute_linearised_impedances(c, op, {{"out", {}}}, {f});
         REQUIRE(z[0].spectrum.size() == 1);
         check_point(z[0].spectrum[0], 1.0 / std::complex<double>(g, 2 * std::numbers::pi * f * (own + cbd)));
-        CHECK(z[0].spectrum_note.find("gate overlap capacitances of m1") != std::string::npos);
+        const SolveNote* overlaps = note_with(z, "gate overlap capacitances");
+        REQUIRE(overlaps);
+        CHECK(overlaps->devices == std::vector<std::string>{"m1"});
     }
 }
 
@@ -322,8 +336,11 @@ TEST_CASE("transistors without capacitances: resistance yes, spectrum and corner
     REQUIRE(z[0].resistance);
     CHECK(z[0].spectrum.empty());
     CHECK_FALSE(z[0].corner_frequency);
-    CHECK(z[0].spectrum_note.find("no capacitances in the op data for m1") != std::string::npos);
-    CHECK(z[0].spectrum_note.find("@m1[cgs]") != std::string::npos);
+    CHECK(z[0].spectrum_note.find("no spectrum") != std::string::npos);
+    const SolveNote* uncharged = note_with(z, "no capacitances in the op data");
+    REQUIRE(uncharged);
+    CHECK(uncharged->text.find("@m1[cgs]") != std::string::npos);
+    CHECK(uncharged->devices == std::vector<std::string>{"m1"});
 }
 
 TEST_CASE("fallback: a behavioural source elsewhere; the degenerated output alone gives ro + (1 + (gm + gmb)ro)Rs") {
@@ -343,7 +360,7 @@ TEST_CASE("fallback: a behavioural source elsewhere; the degenerated output alon
     REQUIRE_MESSAGE(z[0].resistance, z[0].note);
     CHECK(*z[0].resistance == doctest::Approx(expected).epsilon(1e-12));
     CHECK(z[0].scope == "mirror devices only");
-    CHECK(z[0].note.find("behavioural b1") != std::string::npos);
+    CHECK(z[0].note.find("behavioural sources have no linear model here: b1") != std::string::npos);
     CHECK(z[0].note.find("m1, rs") != std::string::npos);
 
     // Without own devices the old answer stays: absent, with the reason.
@@ -369,12 +386,12 @@ TEST_CASE("fallback on a cascode: the net between the two devices is kept, the g
     auto z = compute_linearised_impedances(c, op, {{"out", {0, 1}}}, {});
     REQUIRE_MESSAGE(z[0].resistance, z[0].note);
     CHECK(*z[0].resistance == doctest::Approx(expected).epsilon(1e-12));
-    CHECK(z[0].note.find("m9 lacks gm, gds, gmb") != std::string::npos);
+    CHECK(z[0].note.find("gm, gds, gmb not in the op data: m9") != std::string::npos);
 
     // The own devices lacking their values: absent, both reasons given.
     z = compute_linearised_impedances(c, op, {{"out", {1, 2}}}, {});
     CHECK_FALSE(z[0].resistance);
-    CHECK(z[0].note.find("nor on the mirror's own devices: m9 lacks") != std::string::npos);
+    CHECK(z[0].note.find("nor on the mirror's own devices: gm, gds, gmb not in the op data: m9") != std::string::npos);
 }
 
 TEST_CASE("fallback spectrum: the own devices' capacitances, gates held") {
@@ -393,4 +410,31 @@ TEST_CASE("fallback spectrum: the own devices' capacitances, gates held") {
     check_point(z[0].spectrum[0], single_pole(1 / gds, cgd + cbd, 1e6));
     REQUIRE(z[0].corner_frequency);
     CHECK(*z[0].corner_frequency == doctest::Approx(gds / (2 * std::numbers::pi * (cgd + cbd))).epsilon(1e-6));
+}
+
+TEST_CASE("a cause concerning many devices is said once for the circuit: how many, a few names, all in devices") {
+    Circuit c;
+    for (int k = 1; k <= 6; ++k)
+        c.add_device(mos("m" + std::to_string(k), k == 1 ? "out" : "n" + std::to_string(k), "g", "0", "0"));
+    c.add_device(two_terminal(DeviceKind::vsource, "vout", "out", "0", 2.0));
+    c.add_device(two_terminal(DeviceKind::vsource, "vg", "g", "0", 1.0));
+    c.add_device(two_terminal(DeviceKind::resistor, "r1", "out", "0", 1e3));
+    auto solve = compute_linearised_impedances(c, OpPoint{}, {{"out", {8}}, {"n2", {}}}, {});
+    const SolveNote* refused = note_with(solve, "whole circuit not linearised: gm, gds, gmb not in the op data");
+    REQUIRE(refused);
+    CHECK(refused->text.find("6 devices (m1, m2, m3, m4 and 2 more)") != std::string::npos);
+    CHECK(refused->devices == std::vector<std::string>{"m1", "m2", "m3", "m4", "m5", "m6"});
+    std::size_t mentions = 0;
+    for (const auto& n : solve.notes) mentions += n.text.find("gm, gds, gmb not in the op data") != std::string::npos;
+    CHECK(mentions == 1);
+    // Each output's own note stays short: the cause with a few names, never the whole list.
+    for (const auto& r : solve.outputs) {
+        CAPTURE(r.node);
+        CHECK(r.note.find("m6") == std::string::npos);
+        CHECK(r.note.find("6 devices") != std::string::npos);
+    }
+    // The output with its own device (r1) is solved on it alone.
+    REQUIRE(solve.outputs[0].resistance);
+    CHECK(*solve.outputs[0].resistance == doctest::Approx(1e3));
+    CHECK_FALSE(solve.outputs[1].resistance);
 }

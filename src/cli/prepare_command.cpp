@@ -9,7 +9,7 @@
 #include <fmt/format.h>
 #include <unistd.h>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/cli/review_command.hpp"
 #include "src/deck/ngspice_runner.hpp"
@@ -51,7 +51,7 @@ ReviewDeck make_deck(const DeckRequest& r, const std::string& raw_name) {
                                      r.to));
     options.points_per_decade = r.points_per_decade;
     options.raw_name = raw_name;
-    Circuit circuit = netlist::read_netlist(r.netlist);
+    Circuit circuit = read_circuit(r.netlist);
     return write_review_deck(r.netlist, circuit, find_mirrors(circuit), options);
 }
 

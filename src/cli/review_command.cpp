@@ -6,7 +6,7 @@
 #include "parsers/common/input_kind.hpp"
 #include "parsers/common/quantity.hpp"
 #include "parsers/listing/listing.hpp"
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/analyse/pipeline.hpp"
 #include "src/cli/usage_errors.hpp"
@@ -93,7 +93,7 @@ OpPoint read_op(const Circuit& circuit, const std::string& path) {
 
 int review_and_report(const ReviewOptions& o) {
     const ReviewSettings settings = review_settings(o);
-    Circuit circuit = netlist::read_netlist(o.netlist);
+    Circuit circuit = read_circuit(o.netlist);
     OpPoint op = read_op(circuit, o.op);
     std::vector<std::string> simulation_files;
     std::vector<SimulationPlot> plots = read_simulation_plots(o, simulation_files);

@@ -12,7 +12,7 @@
 #include <string>
 #include <vector>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "support/ngspice_run.hpp"
 #include "test_netlist_support.hpp"
 
@@ -80,7 +80,7 @@ std::string raw_device(const std::string& v) {
 }
 
 void check_against_expected(const fs::path& deck, const std::string& stem) {
-    Circuit c = mirrorcheck::netlist::read_netlist(deck);
+    Circuit c = mirrorcheck::read_circuit(deck);
     fs::path expected = deck.parent_path() / "expected";
     std::string log = mirrorcheck::test::read_text(expected / (stem + ".log"));
 
@@ -143,7 +143,7 @@ std::size_t check_against_live_listing(const fs::path& folder, const std::string
     std::string deck = mirrorcheck::test::read_text(dir / deck_name);
     deck = deck.substr(0, std::min(deck.find(".control"), deck.find(".end\n")));
     mirrorcheck::test::write_text(dir / deck_name, deck);
-    Circuit c = mirrorcheck::netlist::read_netlist(dir / deck_name);
+    Circuit c = mirrorcheck::read_circuit(dir / deck_name);
     std::string showmods;
     for (const auto* d : binned_devices(c)) showmods += "showmod " + d->name + " : lmin lmax wmin wmax\n";
     mirrorcheck::test::write_text(dir / deck_name,
@@ -178,7 +178,7 @@ TEST_CASE("corpus: every deck is read, or refused as unsupported") {
     for (const fs::path& deck : corpus_decks()) {
         CAPTURE(deck.string());
         try {
-            Circuit c = mirrorcheck::netlist::read_netlist(deck);
+            Circuit c = mirrorcheck::read_circuit(deck);
             CHECK_MESSAGE(unsupported.count(deck.filename().string()) == 0, "now supported: " << deck.string());
             ++read;
         } catch (const mirrorcheck::InputError& e) {

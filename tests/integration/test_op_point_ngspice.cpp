@@ -11,7 +11,7 @@
 #include <doctest/doctest.h>
 
 #include "parsers/listing/listing.hpp"
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/model/op_point_build.hpp"
 #include "support/ngspice_run.hpp"
@@ -109,7 +109,7 @@ struct Fixture {
                                     "\nop\nwrite op.raw\nshow all > show.txt\nquit 0\n.endc\n.end\n",
                                 "mc-op");
         REQUIRE_MESSAGE(run.status == 0, run.output);
-        circuit = netlist::read_netlist(run.file("deck.cir"));
+        circuit = read_circuit(run.file("deck.cir"));
         raw = raw::read_raw(run.file("op.raw"));
         REQUIRE(raw.plots.size() == 1);
         from_raw = build_op_point(circuit, raw, raw.plots[0]);

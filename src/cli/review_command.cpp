@@ -91,14 +91,15 @@ OpPoint read_op(const Circuit& circuit, const std::string& path) {
 
 }  // namespace
 
-int review_and_report(const ReviewOptions& o) {
-    const ReviewSettings settings = review_settings(o);
-    Circuit circuit = read_circuit(o.netlist);
+namespace {
+
+int review_with(const ReviewOptions& o, const ReviewSettings& settings, const Circuit& circuit,
+                const std::vector<std::string>& left_out) {
     OpPoint op = read_op(circuit, o.op);
     std::vector<std::string> simulation_files;
     std::vector<SimulationPlot> plots = read_simulation_plots(o, simulation_files);
     Review review = run_review(circuit, op, plots, settings);
-    report::ReviewInputs inputs{o.netlist, op.origin, simulation_files};
+    report::ReviewInputs inputs{o.netlist, op.origin, simulation_files, left_out};
     if (o.format == "json")
         std::cout << report::review_to_json(inputs, circuit, op, review)
                          .dump(2, ' ', false, nlohmann::json::error_handler_t::replace)
@@ -108,6 +109,17 @@ int review_and_report(const ReviewOptions& o) {
     for (const auto& f : review.findings)
         if (fails_review(f)) return 1;
     return 0;
+}
+
+}  // namespace
+
+int review_and_report(const ReviewOptions& o) {
+    const ReviewSettings settings = review_settings(o);
+    return review_with(o, settings, read_circuit(o.netlist), {});
+}
+
+int review_circuit_and_report(const ReviewOptions& o, const Circuit& circuit, const std::vector<std::string>& left_out) {
+    return review_with(o, review_settings(o), circuit, left_out);
 }
 
 

@@ -1,3 +1,4 @@
+// Runs ngspice in batch mode in a given folder and reads the end of its log on failure.
 #include "src/deck/ngspice_runner.hpp"
 
 #include <cstdlib>
@@ -46,21 +47,15 @@ bool contains(const std::string& haystack, const char* needle) {
 
 }  // namespace
 
-void run_ngspice_batch(const NgspiceCall& call, const std::string& deck) {
-    const auto deck_path = call.folder / call.deck_name, log_path = call.folder / call.log_name;
-    {
-        std::ofstream out(deck_path, std::ios::binary);
-        out << deck;
-        if (!out)
-            throw InputError("ngspice.failed", Location(deck_path.string()), "cannot write the deck into this folder");
-    }
+void run_ngspice_batch(const NgspiceCall& call) {
+    const auto& log_path = call.log;
     // A path given relative to where mirrorcheck runs must survive the change of folder.
     const std::string executable = call.executable.find('/') == std::string::npos
                                        ? call.executable
                                        : std::filesystem::absolute(call.executable).string();
-    const std::string command = fmt::format("cd {} && {} -b {} > {} 2>&1 < /dev/null", shell_quoted(call.folder.string()),
-                                            shell_quoted(executable), shell_quoted(call.deck_name),
-                                            shell_quoted(call.log_name));
+    const std::string command =
+        fmt::format("cd {} && {} -b {} > {} 2>&1 < /dev/null", shell_quoted(call.run_folder.string()),
+                    shell_quoted(executable), shell_quoted(call.deck.string()), shell_quoted(call.log.string()));
     const int raw = std::system(command.c_str());
     const int status = raw == -1 ? -1 : WIFEXITED(raw) ? WEXITSTATUS(raw) : 128 + WTERMSIG(raw);
     const std::string log = read_all(log_path);
@@ -81,10 +76,9 @@ void run_ngspice_batch(const NgspiceCall& call, const std::string& deck) {
 }
 
 InputError ngspice_failure(const NgspiceCall& call, const std::string& what) {
-    const auto log_path = call.folder / call.log_name;
-    return InputError("ngspice.failed", Location(log_path.string()),
-                      fmt::format("ngspice {} on {}. The end of its log:{}", what, call.deck_name,
-                                  tail(read_all(log_path), 12)));
+    return InputError("ngspice.failed", Location(call.log.string()),
+                      fmt::format("ngspice {} on {}. The end of its log:{}", what, call.deck.string(),
+                                  tail(read_all(call.log), 12)));
 }
 
 }  // namespace mirrorcheck

@@ -181,13 +181,15 @@ nlohmann::json review_to_json(const ReviewInputs& inputs, const Circuit& circuit
         all.push_back(j);
     }
     Counts n = count(review.findings);
-    return {{"schema", "mirrorcheck-report/1"},
+    nlohmann::json report = {{"schema", "mirrorcheck-report/1"},
             {"inputs", {{"netlist", inputs.netlist}, {"op", inputs.op_source}, {"simulation", inputs.simulation_files}}},
             {"assumptions", review.assumptions},
             {"mirrors", mirrors},
             {"devices", devices},
             {"findings", all},
             {"summary", {{"mirrors", review.mirrors.size()}, {"errors", n.errors}, {"warnings", n.warnings}, {"infos", n.infos}, {"waived", n.waived}}}};
+    if (!inputs.left_out.empty()) report["inputs"]["left_out"] = inputs.left_out;  // `run`: what its deck left out
+    return report;
 }
 
 namespace {

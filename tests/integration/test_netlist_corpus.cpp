@@ -13,6 +13,7 @@
 #include <vector>
 
 #include "src/model/circuit_build.hpp"
+#include "support/corpus.hpp"
 #include "support/ngspice_run.hpp"
 #include "test_netlist_support.hpp"
 
@@ -22,13 +23,8 @@ using namespace mirrorcheck::test::netlist;
 
 namespace {
 
-fs::path corpus_dir() { return fs::path(MIRRORCHECK_SOURCE_DIR) / ".." / "shared" / "corpus"; }
-
-bool corpus_present() {
-    if (fs::is_directory(corpus_dir())) return true;
-    MESSAGE("skipped: no corpus at " << corpus_dir().string());
-    return false;
-}
+using mirrorcheck::test::corpus_dir;
+using mirrorcheck::test::corpus_present;
 
 std::vector<fs::path> corpus_decks() {
     std::vector<fs::path> decks;

@@ -7,6 +7,7 @@
 #include <string>
 
 #include "src/model/circuit_build.hpp"
+#include "support/corpus.hpp"
 #include "support/ngspice_run.hpp"
 #include "support/print_output.hpp"
 #include "test_netlist_support.hpp"
@@ -177,7 +178,7 @@ std::size_t check_resistors(const Circuit& c, const mirrorcheck::test::PrintedVe
     return compared;
 }
 
-fs::path corpus_dir() { return fs::path(MIRRORCHECK_SOURCE_DIR) / ".." / "shared" / "corpus"; }
+using mirrorcheck::test::corpus_dir;
 
 }  // namespace
 
@@ -199,10 +200,7 @@ TEST_CASE("ngspice: an X line's expressions are evaluated in the instance's own 
 }
 
 TEST_CASE("ngspice: PDK instance lines as schematic tools write them (sky130 nfet_01v8, gf180 nmos_3p3)") {
-    if (!fs::is_directory(corpus_dir())) {
-        MESSAGE("skipped: no corpus at " << corpus_dir().string());
-        return;
-    }
+    if (!mirrorcheck::test::corpus_present()) return;
     mirrorcheck::test::NgspiceRun run;
     run.dir = mirrorcheck::test::make_temp_dir("mirrorcheck-netlist-ngspice");
     fs::create_directory_symlink(fs::canonical(corpus_dir() / "sky130"), run.dir / "sky130");

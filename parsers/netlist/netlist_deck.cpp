@@ -415,11 +415,13 @@ private:
         FileReference ref = resolve(line, tokens[1], in_library ? context.library_folder : working_folder_, true,
                                     !in_library);
         deck_.references.push_back(ref);
-        // A library's own references resolve against its real folder (ngspice: realpath).
+        // A library is read from its real path (ngspice: realpath), and its own names
+        // resolve against that folder.
         std::error_code ec;
         auto real = std::filesystem::canonical(ref.resolved, ec);
-        Context inner{ReadFile::Role::library, (ec ? ref.resolved : real).parent_path()};
-        read_file(line, ref.resolved, to_lower(tokens[2].text), inner, true);
+        const std::filesystem::path library = ec ? ref.resolved : real;
+        Context inner{ReadFile::Role::library, library.parent_path()};
+        read_file(line, library, to_lower(tokens[2].text), inner, true);
     }
 
     void read_file(const LogicalLine& line, const std::filesystem::path& path, const std::string& section,

@@ -109,7 +109,7 @@ int run_prepare(const PrepareRequest& r) {
                              deck.probes.size() == 1 ? "" : "s");
     for (const auto& pr : deck.probes) std::cout << fmt::format("  {:<14} {} ({})\n", pr.source, pr.node, pr.mirror);
     for (const auto& copy : deck.included)
-        std::cout << fmt::format("and a derived copy of {}: {}\n", copy.original.string(), copy.path.string());
+        std::cout << fmt::format("also a derived copy of {}: {}\n", copy.original.string(), copy.path.string());
     if (!deck.left_out.empty()) {
         std::cout << "left out of the review deck (the review runs its own analyses):\n";
         for (const auto& line : left_out_lines(deck)) std::cout << "  " << line << "\n";

@@ -19,6 +19,7 @@
 
 #include "parsers/raw/raw.hpp"
 #include "support/print_output.hpp"
+#include "support/corpus.hpp"
 #include "support/ngspice_run.hpp"
 #include "support/run_cli.hpp"
 
@@ -381,6 +382,24 @@ TEST_CASE("errors in the user's deck are found before ngspice runs, with the use
         CHECK(p.err.find(b.where) != std::string::npos);
     }
     fs::remove_all(dir);
+}
+
+TEST_CASE("run on one of ngspice's own example decks as it is: a title line, .options, .tran, .print, .plot") {
+    if (!mirrorcheck::test::corpus_present()) return;
+    const auto source = mirrorcheck::test::corpus_dir() / "ngspice/examples/xspice/original-examples/mosamp2.in";
+    auto dir = mirrorcheck::test::make_temp_dir("mc-run");
+    fs::copy_file(source, dir / "mosamp2.in");  // ngspice would write nothing; the copy keeps the corpus read-only
+    auto r = mirrorcheck::test::run_cli("run mosamp2.in --format json", dir);
+    REQUIRE_MESSAGE(r.status != 2, r.err);
+    json report = json::parse(r.out);
+    CHECK(report["inputs"]["left_out"].get<std::vector<std::string>>() ==
+          std::vector<std::string>{"mosamp2.in:3: .tran 0.1us 10us", "mosamp2.in:40: .print tran v(20) v(66)",
+                                   "mosamp2.in:41: .plot  tran v(20) v(66)"});
+    CHECK(outputs(report).size() == 4);
+    check_simulated_equals_linearised(report);
+    std::error_code ec;
+    fs::permissions(dir / "mosamp2.in", fs::perms::owner_write, fs::perm_options::add, ec);
+    fs::remove_all(dir, ec);
 }
 
 // The lines `prepare` printed to run after it, as a shell would run them.

@@ -196,6 +196,8 @@ void save_review_deck(const ReviewDeck& deck) {
         out << text;
         if (!out) throw deck_errors::cannot_write(Location(path.string()), "the review deck");
     };
+    std::error_code ec;
+    fs::create_directories(deck.path.parent_path(), ec);
     write(deck.path, deck.text);
     for (const DerivedFile& f : deck.included) write(f.path, f.text);
 }

@@ -11,6 +11,7 @@
 // AC zero, the paths); the exact solve of these BSIM4 devices is not checked here.
 #include <doctest/doctest.h>
 
+#include <cmath>
 #include <cstdlib>
 #include <filesystem>
 #include <string>
@@ -92,7 +93,7 @@ std::vector<PdkDeck> decks() {
          1, "nmos-wide-swing-cascode"},
         {"sky130 Wilson", "sky130",
          "IREF vdd y 10u\n" + sky_fet("XM2", "g g 0 0", n, 5, 1) + sky_fet("XM1", "y g 0 0", n, 5, 1) +
-             sky_fet("XM3", "out y g 0", n, 5, 1) + "RL vdd out 20k\n",
+             sky_fet("XM3", "out y g 0", n, 5, 1) + "VOUT out 0 1.2\n",
          1, "nmos-wilson"},
         {"gf180 simple 1:3 (m=3 on the M line, nf=2) and a PMOS source 1:1 of X instances", "gf180mcu",
          "IREF vdd nref 20u\nM1 nref nref 0 0 nmos_3p3 w=20u l=1u nf=2\nM2 pd nref 0 0 nmos_3p3 w=20u l=1u nf=2 m=3\n" +
@@ -101,7 +102,7 @@ std::vector<PdkDeck> decks() {
          2, "nmos-simple pmos-simple"},
         {"gf180 standard cascode", "gf180mcu",
          "IREF vdd n1 20u\n" + gf_fet("XM1", "n2 n2 0 0", "nmos", "10u") + gf_fet("XM3", "n1 n1 n2 0", "nmos", "10u") +
-             gf_fet("XM2", "s4 n2 0 0", "nmos", "10u") + gf_fet("XM4", "out n1 s4 0", "nmos", "10u") + "RL vdd out 50k\n",
+             gf_fet("XM2", "s4 n2 0 0", "nmos", "10u") + gf_fet("XM4", "out n1 s4 0", "nmos", "10u") + "VOUT out 0 2.2\n",
          1, "nmos-cascode"},
         {"gf180 wide-swing cascode", "gf180mcu",
          "IREF vdd ref 20u\nIB vdd vb 20u\n" + gf_fet("XM5", "vb vb 0 0", "nmos", "2u") +
@@ -180,13 +181,20 @@ TEST_CASE("run on sky130 and gf180 decks as designers write them: simulated Rout
             std::string families;
             for (const auto& m : report["mirrors"]) families += (families.empty() ? "" : " ") + m["family"].get<std::string>();
             CHECK(families == d.families);
+            // the decks are healthy mirrors: every transistor saturated
+            for (const auto& f : report["findings"]) {
+                CAPTURE(f["message"]);
+                CHECK(f["code"] != "out-of-saturation");
+                CHECK(f["code"] != "cutoff");
+            }
             for (const json& o : all) {
                 CAPTURE(o["node"]);
                 REQUIRE_MESSAGE(o["rout"]["simulated"].is_number(), o["rout"]["simulated_note"]);
                 const double tf = tf_impedance(dir, body, o);
                 const double simulated = o["rout"]["simulated"].get<double>();
-                MESSAGE(std::string(d.name) << ", " << o["node"].get<std::string>() << ": simulated " << simulated << " Ω, .tf " << tf
-                               << " Ω");
+                MESSAGE(std::string(d.name) << ", " << o["node"].get<std::string>() << ": simulated " << simulated
+                                            << " Ω, .tf " << tf << " Ω, relative difference "
+                                            << std::abs(simulated - tf) / tf);
                 CHECK(simulated == doctest::Approx(tf).epsilon(1e-3));
             }
             std::error_code ec;

@@ -324,6 +324,24 @@ TEST_CASE("run takes a designer's deck as it is: title, its own analyses and con
     fs::remove_all(dir);
 }
 
+TEST_CASE("run holds an AC stimulus inside a subcircuit at zero too, by the name ngspice gives it") {
+    // The stimulus reaches the output through 100 Ω: left on, it adds about 1 Ω to the
+    // probe's 99.8 Ω (1 V of stimulus per 1 A of probe current).
+    const std::string deck =
+        "stimulus in a subcircuit\n.model nc nmos level=1 vto=0.5 kp=200u lambda=0.06\n"
+        ".subckt drive n\nvsig n 0 dc 1.2 ac 1\n.ends\n"
+        "vdd vdd 0 3.3\niref vdd ref 20u\nm1 ref ref 0 0 nc w=10u l=1u\nm2 out ref 0 0 nc w=10u l=1u\n"
+        "rl vdd out 50k\nxsrc in drive\nrf in out 100\n.end\n";
+    for (const char* mode : {"injected", "held"}) {
+        CAPTURE(mode);
+        Ran r = run(deck, std::string("--mode ") + mode);
+        CHECK(outputs(r.report).size() == 1);
+        check_simulated_equals_linearised(r.report);
+        CHECK(mirrorcheck::test::read_text(r.folder / "review.cir").find("alter @v.xsrc.vsig[acmag]=0\n") !=
+              std::string::npos);
+    }
+}
+
 TEST_CASE("an included file with its own control block and analyses gets a derived copy; ngspice never runs them") {
     auto dir = mirrorcheck::test::make_temp_dir("mc-run");
     // ngspice runs an included file's .control block too, and its quit ends the run

@@ -6,6 +6,7 @@
 #include <cctype>
 #include <unordered_set>
 
+#include "parsers/common/text.hpp"
 #include "parsers/netlist/expression.hpp"
 #include "parsers/netlist/netlist_errors.hpp"
 
@@ -23,7 +24,7 @@ struct Instance {
     // first): {"x1001_t", "x1"} names a resistor `r.x1001_t.r.x1.r1`.
     std::vector<std::string> segments;
     std::unordered_map<std::string, std::string> ports;   // port name -> the caller's net
-    std::vector<InstanceLevel> hierarchy;
+    std::vector<FlatInstance> hierarchy;
     // The `m` ngspice 39 writes onto every device line of this instance (see flatten.hpp).
     std::optional<double> forced_m;
 };
@@ -130,12 +131,11 @@ bool assign(const NamedValue& nv, Scope& scope, const Scope& from) {
     }
 }
 
-// Evaluates assignments in order, into `scope`, skipping names in `fixed`. An assignment
-// that names a parameter defined further on is retried once the others are known.
-void evaluate_params(const std::vector<NamedValue>& list, Scope& scope, const std::unordered_set<std::string>& fixed) {
+// Evaluates the global `.param` assignments in order, into `scope`. An assignment that
+// names a parameter defined further on is retried once the others are known.
+void evaluate_params(const std::vector<NamedValue>& list, Scope& scope) {
     std::vector<const NamedValue*> pending;
     for (const NamedValue& nv : list) {
-        if (fixed.count(nv.name)) continue;
         if (assign(nv, scope, scope)) std::erase_if(pending, [&](const NamedValue* p) { return p->name == nv.name; });
         else pending.push_back(&nv);
     }
@@ -159,10 +159,80 @@ void define_functions(const std::vector<FunctionDef>& functions, Scope& scope) {
     }
 }
 
+std::optional<double> parameter_of(const FlatDevice& d, const std::string& name) {
+    auto it = d.parameters.find(name);
+    if (it == d.parameters.end()) return std::nullopt;
+    return it->second;
+}
+
 std::optional<double> find_parameter(const std::vector<NamedValue>& list, std::string_view name, const Scope& scope) {
     for (const NamedValue& nv : list)
         if (nv.name == name) return evaluate(nv.value, scope);
     return std::nullopt;
+}
+
+// The names a value's text mentions (identifiers; numbers with their suffixes skipped).
+std::unordered_set<std::string> mentioned_names(const std::string& text) {
+    std::unordered_set<std::string> names;
+    std::size_t i = 0;
+    auto word_char = [&](std::size_t k) {
+        return k < text.size() && (std::isalnum(static_cast<unsigned char>(text[k])) || text[k] == '_');
+    };
+    while (i < text.size()) {
+        const unsigned char c = static_cast<unsigned char>(text[i]);
+        if (std::isalpha(c) || c == '_') {
+            std::size_t start = i;
+            while (word_char(i)) ++i;
+            names.insert(to_lower(text.substr(start, i - start)));
+        } else if (std::isdigit(c) || c == '.') {
+            while (word_char(i) || (i < text.size() && text[i] == '.')) ++i;
+            if (i < text.size() && (text[i] == '+' || text[i] == '-') && (text[i - 1] == 'e' || text[i - 1] == 'E')) {
+                ++i;
+                while (word_char(i)) ++i;
+            }
+        } else {
+            ++i;
+        }
+    }
+    return names;
+}
+
+// A list of assignments in ngspice's order (inpcom.c, inp_sort_params): by dependency level
+// (0 for a value that names no other of the list, else one more than the deepest it
+// names), in the order written within a level; of two with the same name, the later.
+std::vector<const NamedValue*> by_dependency(const std::vector<NamedValue>& list) {
+    std::vector<const NamedValue*> kept;
+    for (std::size_t i = 0; i < list.size(); ++i) {
+        bool redefined = false;
+        for (std::size_t j = i + 1; j < list.size() && !redefined; ++j) redefined = list[j].name == list[i].name;
+        if (!redefined) kept.push_back(&list[i]);
+    }
+    std::vector<std::vector<std::size_t>> depends(kept.size());
+    for (std::size_t i = 0; i < kept.size(); ++i) {
+        auto names = mentioned_names(kept[i]->value.text);
+        for (std::size_t j = 0; j < kept.size(); ++j)
+            if (j != i && names.count(kept[j]->name)) depends[i].push_back(j);
+    }
+    std::vector<int> level(kept.size(), -1);
+    // Levels by relaxation; a cycle stops at the list's length and is reported on evaluation.
+    for (std::size_t round = 0; round <= kept.size(); ++round) {
+        bool changed = false;
+        for (std::size_t i = 0; i < kept.size(); ++i) {
+            int l = 0;
+            for (std::size_t j : depends[i]) l = std::max(l, level[j] + 1);
+            if (l != level[i] && l <= static_cast<int>(kept.size())) {
+                level[i] = l;
+                changed = true;
+            }
+        }
+        if (!changed) break;
+    }
+    std::vector<std::size_t> order(kept.size());
+    for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
+    std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) { return level[a] < level[b]; });
+    std::vector<const NamedValue*> sorted;
+    for (std::size_t i : order) sorted.push_back(kept[i]);
+    return sorted;
 }
 
 class Flattener {
@@ -172,24 +242,28 @@ public:
 
     explicit Flattener(const Deck& deck) : deck_(deck) {}
 
-    Circuit run() {
+    FlatNetlist run() {
         Instance top;
         top.def = &deck_.top;
         if (deck_.temperature) top.scope.set("temper", *deck_.temperature);
         define_functions(deck_.top.functions, top.scope);
         collect_multiplied(deck_.top);
-        circuit_.reserve(deck_.top.elements.size());
-        evaluate_params(deck_.top.params, top.scope, {});
+        out_.devices.reserve(deck_.top.elements.size());
+        evaluate_params(deck_.top.params, top.scope);
         expand(top);
-        circuit_.title = deck_.title;
-        circuit_.control_blocks = deck_.control_blocks;
-        return std::move(circuit_);
+        out_.title = deck_.title;
+        out_.control_blocks = deck_.control_blocks;
+        out_.cards = deck_.cards;
+        out_.references = deck_.references;
+        out_.files = deck_.read_files;
+        return std::move(out_);
     }
 
 private:
     const Deck& deck_;
-    Circuit circuit_;
-    std::unordered_map<std::string, std::shared_ptr<const Model>> models_;  // by ngspice name
+    FlatNetlist out_;
+    std::unordered_set<std::string> device_names_;
+    std::unordered_map<std::string, std::size_t> models_;  // index into out_.models, by ngspice name
     std::unordered_set<std::string> multiplied_;  // subcircuits that some X line gives an m
 
     void collect_multiplied(const SubcktDef& def) {
@@ -266,29 +340,46 @@ private:
         child.hierarchy.push_back({el.name, subckt, {*el.line->file, el.line->first_line()}});
         for (std::size_t i = 0; i < nodes; ++i) child.ports[def->ports[i]] = net_name(inst, node_token(el, i, ""));
 
-        std::unordered_set<std::string> fixed;
-        bool declares_m = std::any_of(def->defaults.begin(), def->defaults.end(),
-                                      [](const NamedValue& nv) { return nv.name == "m"; });
         define_functions(def->functions, child.scope);
-        std::optional<double> own_m;
-        for (const NamedValue& nv : el.parts.named) {
-            if (nv.name == "m") {
-                own_m = evaluate(nv.value, inst.scope);
-                continue;
-            }
-            if (!assign(nv, child.scope, inst.scope)) evaluate(nv.value, inst.scope);  // throws its error
-            fixed.insert(nv.name);
-        }
-        if (declares_m && own_m) {
-            child.scope.set("m", *own_m);
-            fixed.insert("m");
-        } else if (!declares_m && multiplied_.count(subckt)) {
-            // The caller's m is written after the line's own, and wins.
-            child.forced_m = inst.forced_m ? inst.forced_m : own_m.value_or(1);
-        }
-        evaluate_params(def->defaults, child.scope, fixed);
-        evaluate_params(def->params, child.scope, fixed);
+        assign_instance_parameters(inst, el, subckt, child);
         expand(child);
+    }
+
+    // The X line's parameters, as ngspice 39 assigns them (inpcom.c, numparam's
+    // nupa_subcktcall; checked with decks of our own): the subcircuit's formal parameters
+    // are the `.subckt` line's, then the body's `.param`s, each group ordered by dependency
+    // (a parameter after those its default names); the X line's value replaces a formal's
+    // default, and a name that is not a formal is dropped. Values that are plain numbers are
+    // assigned first, then the others in that order, each evaluated in the new instance's
+    // scope: an expression on the line sees the line's own numbers (`W/nf`), the formals
+    // already assigned (a default not on the line, `nf=1`), and then the caller's scope.
+    // A subcircuit that declares no `m` but that some X line gives one gets a formal `m=1`.
+    void assign_instance_parameters(const Instance& inst, const Element& el, const std::string& subckt,
+                                    Instance& child) const {
+        const SubcktDef* def = child.def;
+        std::vector<const NamedValue*> formals = by_dependency(def->defaults);
+        for (const NamedValue* nv : by_dependency(def->params)) formals.push_back(nv);
+        const bool declares_m =
+            std::any_of(formals.begin(), formals.end(), [](const NamedValue* nv) { return nv->name == "m"; });
+        static const NamedValue unit_m{"m", {"1", nullptr, 0, false}};
+        const bool multiplied = !declares_m && multiplied_.count(subckt);
+        if (multiplied) formals.push_back(&unit_m);
+        std::vector<const NamedValue*> assignments;
+        for (const NamedValue* formal : formals) {
+            const NamedValue* given = formal;
+            for (const NamedValue& nv : el.parts.named)
+                if (nv.name == formal->name) given = &nv;
+            assignments.push_back(given);
+        }
+        std::stable_partition(assignments.begin(), assignments.end(), [](const NamedValue* nv) {
+            return !nv->value.is_string && parse_spice_number(nv->value.text).has_value();
+        });
+        for (const NamedValue* nv : assignments)
+            if (!assign(*nv, child.scope, child.scope)) evaluate(nv->value, child.scope);  // throws its error
+        if (multiplied) {
+            // The caller's m is written after the line's own, and wins.
+            child.forced_m = inst.forced_m ? inst.forced_m : child.scope.find("m");
+        }
     }
 
     // ---- models ------------------------------------------------------------------------
@@ -311,8 +402,7 @@ private:
         return t.kind == TokenKind::word && find_model(inst, to_lower(t.text)).owner != nullptr;
     }
 
-    std::shared_ptr<const Model> resolve_model(const Instance& inst, const Element& el, const Token& t,
-                                               const Device& device) {
+    std::size_t resolve_model(const Instance& inst, const Element& el, const Token& t, const FlatDevice& device) {
         std::string name = to_lower(t.text);
         ModelHome home = find_model(inst, name);
         if (!home.owner) throw errors::unknown_model(el.at(t), name);
@@ -320,19 +410,19 @@ private:
         std::string ngspice_name;
         for (const std::string& segment : home.owner->segments) ngspice_name += segment + ":";
         ngspice_name += home.card->name;
-        auto& cached = models_[ngspice_name];
-        if (!cached) cached = evaluate_model(*home.card, home.owner->scope, name, ngspice_name);
-        return cached;
+        auto [it, inserted] = models_.try_emplace(ngspice_name, out_.models.size());
+        if (inserted) out_.models.push_back(evaluate_model(*home.card, home.owner->scope, name, ngspice_name));
+        return it->second;
     }
 
     const ModelCard* choose_bin(const Instance& owner, const Element& el, const Token& t, const std::string& name,
-                                const std::vector<std::string>& bins, const Device& device) {
-        auto l = device.parameter("l");
-        auto w = device.parameter("w");
+                                const std::vector<std::string>& bins, const FlatDevice& device) {
+        auto l = parameter_of(device, "l");
+        auto w = parameter_of(device, "w");
         if (!l || !w) throw errors::unknown_model(el.at(t), name);
         double width = *w;
         if (deck_.divide_width_by_nf)
-            if (auto nf = device.parameter("nf"); nf && *nf > 0) width /= *nf;
+            if (auto nf = parameter_of(device, "nf"); nf && *nf > 0) width /= *nf;
         // ngspice 39: the first bin, in the order of definition, whose closed ranges hold l
         // and w within 1 nm.
         constexpr double tolerance = 1e-9;
@@ -349,9 +439,10 @@ private:
         throw errors::no_model_bin(el.at(t), name, *l, width);
     }
 
-    std::shared_ptr<const Model> evaluate_model(const ModelCard& card, const Scope& scope, const std::string& name,
-                                                const std::string& ngspice_name) {
-        auto model = std::make_shared<Model>();
+    static FlatModel evaluate_model(const ModelCard& card, const Scope& scope, const std::string& name,
+                                    const std::string& ngspice_name) {
+        FlatModel flat;
+        FlatModel* model = &flat;
         model->name = name;
         model->ngspice_name = ngspice_name;
         model->type = card.type;
@@ -374,13 +465,13 @@ private:
         if (auto it = model->text.find("version"); it != model->text.end())
             if (auto v = parse_spice_number(it->second.substr(0, it->second.find('.', it->second.find('.') + 1))))
                 model->version = *v;
-        return model;
+        return flat;
     }
 
     // ---- devices -----------------------------------------------------------------------
 
-    Device start_device(const Instance& inst, const Element& el, DeviceKind kind) const {
-        Device d;
+    FlatDevice start_device(const Instance& inst, const Element& el, ElementKind kind) const {
+        FlatDevice d;
         d.kind = kind;
         d.name = device_name(inst, el.name);
         d.local_name = el.name;
@@ -389,13 +480,13 @@ private:
         return d;
     }
 
-    void connect(const Instance& inst, const Element& el, Device& d, std::size_t first,
+    void connect(const Instance& inst, const Element& el, FlatDevice& d, std::size_t first,
                  std::initializer_list<const char*> roles, std::string_view expected) const {
         std::size_t i = first;
         for (const char* role : roles) d.terminals.push_back({role, net_name(inst, node_token(el, i++, expected))});
     }
 
-    void connect_n(const Instance& inst, const Element& el, Device& d, std::size_t count,
+    void connect_n(const Instance& inst, const Element& el, FlatDevice& d, std::size_t count,
                    const std::array<const char*, 6>& roles) const {
         for (std::size_t i = 0; i < count; ++i)
             d.terminals.push_back({roles[i], net_name(inst, node_token(el, i, ""))});
@@ -407,42 +498,42 @@ private:
         return evaluate(token_value(*el.line, t), inst.scope);
     }
 
-    void named_parameters(const Instance& inst, const Element& el, Device& d) const {
+    void named_parameters(const Instance& inst, const Element& el, FlatDevice& d) const {
         for (const NamedValue& nv : el.parts.named) d.parameters[nv.name] = evaluate(nv.value, inst.scope);
     }
 
-    static void apply_multiplier(const Instance& inst, Device& d) {
+    static void apply_multiplier(const Instance& inst, FlatDevice& d) {
         static constexpr std::string_view takes_m = "rcldqjigfm";
         if (inst.forced_m && takes_m.find(d.local_name[0]) != std::string_view::npos) d.parameters["m"] = *inst.forced_m;
     }
 
     void add(const Instance& inst, const Element& el) {
-        Device d = build(inst, el);
+        FlatDevice d = build(inst, el);
         apply_multiplier(inst, d);
-        std::string name = d.name;
-        if (!circuit_.try_add_device(std::move(d))) throw errors::duplicate_device(el.line->locate(0), name);
+        if (!device_names_.insert(d.name).second) throw errors::duplicate_device(el.line->locate(0), d.name);
+        out_.devices.push_back(std::move(d));
     }
 
-    Device build(const Instance& inst, const Element& el) {
+    FlatDevice build(const Instance& inst, const Element& el) {
         switch (el.letter) {
-            case 'r': return passive(inst, el, DeviceKind::resistor, {"r", "resistance"});
-            case 'c': return passive(inst, el, DeviceKind::capacitor, {"c", "capacitance"});
-            case 'l': return passive(inst, el, DeviceKind::inductor, {"l", "inductance"});
-            case 'v': return source(inst, el, DeviceKind::vsource);
-            case 'i': return source(inst, el, DeviceKind::isource);
-            case 'e': return voltage_controlled(inst, el, DeviceKind::vcvs);
-            case 'g': return voltage_controlled(inst, el, DeviceKind::vccs);
-            case 'f': return current_controlled(inst, el, DeviceKind::cccs);
-            case 'h': return current_controlled(inst, el, DeviceKind::ccvs);
+            case 'r': return passive(inst, el, ElementKind::resistor, {"r", "resistance"});
+            case 'c': return passive(inst, el, ElementKind::capacitor, {"c", "capacitance"});
+            case 'l': return passive(inst, el, ElementKind::inductor, {"l", "inductance"});
+            case 'v': return source(inst, el, ElementKind::vsource);
+            case 'i': return source(inst, el, ElementKind::isource);
+            case 'e': return voltage_controlled(inst, el, ElementKind::vcvs);
+            case 'g': return voltage_controlled(inst, el, ElementKind::vccs);
+            case 'f': return current_controlled(inst, el, ElementKind::cccs);
+            case 'h': return current_controlled(inst, el, ElementKind::ccvs);
             case 'b': return behavioural(inst, el);
             case 'k': return coupling(inst, el);
-            case 'd': return with_model(inst, el, DeviceKind::diode, {"anode", "cathode"});
-            case 'j': return with_model(inst, el, DeviceKind::jfet, {"d", "g", "s"});
-            case 'z': return with_model(inst, el, DeviceKind::other, {"d", "g", "s"});
-            case 's': return with_model(inst, el, DeviceKind::other, {"pos", "neg", "cpos", "cneg"});
-            case 'm': return transistor(inst, el, DeviceKind::mosfet, {3, 4, 5, 6}, {"d", "g", "s", "b", "n5", "n6"});
-            case 'q': return transistor(inst, el, DeviceKind::bjt, {3, 4, 5}, {"c", "b", "e", "s", "t", ""});
-            case 'n': return transistor(inst, el, DeviceKind::other, {2, 3, 4, 5, 6}, {"n1", "n2", "n3", "n4", "n5", "n6"});
+            case 'd': return with_model(inst, el, ElementKind::diode, {"anode", "cathode"});
+            case 'j': return with_model(inst, el, ElementKind::jfet, {"d", "g", "s"});
+            case 'z': return with_model(inst, el, ElementKind::other, {"d", "g", "s"});
+            case 's': return with_model(inst, el, ElementKind::other, {"pos", "neg", "cpos", "cneg"});
+            case 'm': return transistor(inst, el, ElementKind::mosfet, {3, 4, 5, 6}, {"d", "g", "s", "b", "n5", "n6"});
+            case 'q': return transistor(inst, el, ElementKind::bjt, {3, 4, 5}, {"c", "b", "e", "s", "t", ""});
+            case 'n': return transistor(inst, el, ElementKind::other, {2, 3, 4, 5, 6}, {"n1", "n2", "n3", "n4", "n5", "n6"});
             case 'w': return current_switch(inst, el);
             case 't':
             case 'o':
@@ -453,8 +544,8 @@ private:
         }
     }
 
-    Device passive(const Instance& inst, const Element& el, DeviceKind kind, std::array<const char*, 2> value_keys) {
-        Device d = start_device(inst, el, kind);
+    FlatDevice passive(const Instance& inst, const Element& el, ElementKind kind, std::array<const char*, 2> value_keys) {
+        FlatDevice d = start_device(inst, el, kind);
         connect(inst, el, d, 0, {"pos", "neg"}, "two nodes");
         std::size_t i = 2;
         if (i < el.count() && names_model(inst, el.positional(i))) {
@@ -476,7 +567,7 @@ private:
 
     // A value that reads node voltages or currents (`r={v(x)}`) makes the element nonlinear:
     // it is recorded as an expression, as for B sources.
-    void main_value(const ValueText& v, const Instance& inst, Device& d) const {
+    void main_value(const ValueText& v, const Instance& inst, FlatDevice& d) const {
         try {
             Expression e = Expression::compile(v.text);
             if (e.reads_circuit()) d.text["expression"] = v.text;
@@ -492,8 +583,8 @@ private:
         return names.count(word) != 0;
     }
 
-    Device source(const Instance& inst, const Element& el, DeviceKind kind) {
-        Device d = start_device(inst, el, kind);
+    FlatDevice source(const Instance& inst, const Element& el, ElementKind kind) {
+        FlatDevice d = start_device(inst, el, kind);
         connect(inst, el, d, 0, {"pos", "neg"}, "two nodes");
         std::size_t i = 2;
         auto is_value = [&](std::size_t k) { return k < el.count() && el.positional(k).is_value(); };
@@ -554,8 +645,8 @@ private:
         return static_cast<std::size_t>(n);
     }
 
-    Device voltage_controlled(const Instance& inst, const Element& el, DeviceKind kind) {
-        Device d = start_device(inst, el, kind);
+    FlatDevice voltage_controlled(const Instance& inst, const Element& el, ElementKind kind) {
+        FlatDevice d = start_device(inst, el, kind);
         connect(inst, el, d, 0, {"pos", "neg"}, "two output nodes");
         static const std::unordered_set<std::string> keywords{"value", "vol", "cur", "table", "laplace", "freq",
                                                               "and", "or", "nand", "nor"};
@@ -581,8 +672,8 @@ private:
         return d;
     }
 
-    Device current_controlled(const Instance& inst, const Element& el, DeviceKind kind) {
-        Device d = start_device(inst, el, kind);
+    FlatDevice current_controlled(const Instance& inst, const Element& el, ElementKind kind) {
+        FlatDevice d = start_device(inst, el, kind);
         connect(inst, el, d, 0, {"pos", "neg"}, "two output nodes");
         std::size_t i = 2;
         std::size_t controls = 1;
@@ -603,15 +694,15 @@ private:
         return d;
     }
 
-    Device behavioural(const Instance& inst, const Element& el) {
-        Device d = start_device(inst, el, DeviceKind::behavioural);
+    FlatDevice behavioural(const Instance& inst, const Element& el) {
+        FlatDevice d = start_device(inst, el, ElementKind::behavioural);
         connect(inst, el, d, 0, {"pos", "neg"}, "two nodes");
         d.text["expression"] = el.text_after(1);
         return d;
     }
 
-    Device coupling(const Instance& inst, const Element& el) {
-        Device d = start_device(inst, el, DeviceKind::coupling);
+    FlatDevice coupling(const Instance& inst, const Element& el) {
+        FlatDevice d = start_device(inst, el, ElementKind::coupling);
         for (std::size_t k = 0; k < 2; ++k) {
             const Token& t = node_token(el, k, "two inductor names and a coupling factor");
             d.text["inductor" + std::to_string(k + 1)] = device_name(inst, to_lower(t.text));
@@ -621,13 +712,13 @@ private:
         return d;
     }
 
-    Device with_model(const Instance& inst, const Element& el, DeviceKind kind, std::initializer_list<const char*> roles) {
-        Device d = start_device(inst, el, kind);
+    FlatDevice with_model(const Instance& inst, const Element& el, ElementKind kind, std::initializer_list<const char*> roles) {
+        FlatDevice d = start_device(inst, el, kind);
         connect(inst, el, d, 0, roles, "nodes and a model name");
         std::size_t i = roles.size();
         if (i >= el.count()) throw errors::missing_nodes(el.end(), el.name, "a model name after the nodes");
         const Token& model = el.positional(i);
-        if (kind != DeviceKind::other && i + 1 < el.count() && el.positional(i + 1).is_value() &&
+        if (kind != ElementKind::other && i + 1 < el.count() && el.positional(i + 1).is_value() &&
             parse_spice_number(el.positional(i + 1).text))
             d.parameters["area"] = value_at(inst, el, i + 1);
         named_parameters(inst, el, d);
@@ -635,9 +726,9 @@ private:
         return d;
     }
 
-    Device transistor(const Instance& inst, const Element& el, DeviceKind kind, std::initializer_list<std::size_t> counts,
+    FlatDevice transistor(const Instance& inst, const Element& el, ElementKind kind, std::initializer_list<std::size_t> counts,
                       const std::array<const char*, 6>& roles) {
-        Device d = start_device(inst, el, kind);
+        FlatDevice d = start_device(inst, el, kind);
         std::size_t nodes = 0;
         for (std::size_t n : counts)
             if (n < el.count() && names_model(inst, el.positional(n))) {
@@ -645,7 +736,7 @@ private:
                 break;
             }
         if (nodes == 0) {
-            std::size_t usual = *(counts.begin() + (kind == DeviceKind::mosfet ? 1 : 0));
+            std::size_t usual = *(counts.begin() + (kind == ElementKind::mosfet ? 1 : 0));
             if (usual >= el.count()) throw errors::missing_nodes(el.end(), el.name, "nodes and a model name");
             throw errors::unknown_model(el.at(el.positional(usual)), to_lower(el.positional(usual).text));
         }
@@ -653,12 +744,12 @@ private:
         if (nodes + 1 < el.count() && el.positional(nodes + 1).is_value() && parse_spice_number(el.positional(nodes + 1).text))
             d.parameters["area"] = value_at(inst, el, nodes + 1);
         named_parameters(inst, el, d);
-        if (kind == DeviceKind::mosfet) scale_geometry(d);
+        if (kind == ElementKind::mosfet) scale_geometry(d);
         d.model = resolve_model(inst, el, el.positional(nodes), d);
         return d;
     }
 
-    void scale_geometry(Device& d) const {
+    void scale_geometry(FlatDevice& d) const {
         if (deck_.scale == 1) return;
         for (const char* key : {"w", "l", "pd", "ps"})
             if (auto it = d.parameters.find(key); it != d.parameters.end()) it->second *= deck_.scale;
@@ -666,8 +757,8 @@ private:
             if (auto it = d.parameters.find(key); it != d.parameters.end()) it->second *= deck_.scale * deck_.scale;
     }
 
-    Device current_switch(const Instance& inst, const Element& el) {
-        Device d = start_device(inst, el, DeviceKind::other);
+    FlatDevice current_switch(const Instance& inst, const Element& el) {
+        FlatDevice d = start_device(inst, el, ElementKind::other);
         connect(inst, el, d, 0, {"pos", "neg"}, "two nodes, the controlling source and a model");
         const Token& control = node_token(el, 2, "the controlling voltage source");
         d.text["control"] = device_name(inst, to_lower(control.text));
@@ -676,8 +767,8 @@ private:
         return d;
     }
 
-    Device opaque(const Instance& inst, const Element& el, std::initializer_list<const char*> roles) {
-        Device d = start_device(inst, el, DeviceKind::other);
+    FlatDevice opaque(const Instance& inst, const Element& el, std::initializer_list<const char*> roles) {
+        FlatDevice d = start_device(inst, el, ElementKind::other);
         connect(inst, el, d, 0, roles, std::to_string(roles.size()) + " nodes");
         d.text["line"] = el.text_after(roles.size() - 1);
         return d;
@@ -685,8 +776,8 @@ private:
 
     // XSPICE `A` devices: nodes (possibly in [ ] vectors, with %v %d ... modifiers) and a
     // model last. The nets are kept; the connection semantics are not interpreted.
-    Device xspice(const Instance& inst, const Element& el) {
-        Device d = start_device(inst, el, DeviceKind::other);
+    FlatDevice xspice(const Instance& inst, const Element& el) {
+        FlatDevice d = start_device(inst, el, ElementKind::other);
         if (el.count() < 2) throw errors::missing_nodes(el.end(), el.name, "connections and a model name");
         std::size_t port = 0;
         for (std::size_t i = 0; i + 1 < el.count(); ++i) {
@@ -705,6 +796,6 @@ private:
 
 }  // namespace
 
-Circuit flatten(const Deck& deck) { return Flattener(deck).run(); }
+FlatNetlist flatten(const Deck& deck) { return Flattener(deck).run(); }
 
 }  // namespace mirrorcheck::netlist::detail

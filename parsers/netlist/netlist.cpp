@@ -6,7 +6,7 @@
 
 namespace mirrorcheck::netlist {
 
-Circuit read_netlist(const std::filesystem::path& path) {
+FlatNetlist read_netlist(const std::filesystem::path& path) {
     auto deck = detail::read_deck(path);
     return detail::flatten(*deck);
 }

@@ -1,16 +1,121 @@
 // Reader for SPICE netlists in the ngspice dialect: reads a deck and everything it includes
-// and returns the flattened circuit, every device named as ngspice names it.
+// and returns plain data: the flattened devices, every one named as ngspice names it, their
+// models, and what a tool needs to write a derived copy of the deck (the statements that
+// describe no part of the circuit, and where each file names another).
+//
+// Paths are resolved as ngspice 39 resolves them when it runs the deck from the deck's own
+// folder (the "working folder"), found with decks of our own and in its inpcom.c:
+//   `.include X` in file F      ./X (the working folder), else F's folder / X
+//   `.lib X section` read from the top file or a file it includes
+//                               ./X, else the top file's folder / X (the same folder here)
+//   `.lib X section` inside a library section of the file L
+//                               ./X, else the folder of L (symbolic links resolved) / X
+// An absolute path is taken as it is.
 #pragma once
 
+#include <cstddef>
 #include <filesystem>
+#include <map>
+#include <optional>
+#include <string>
+#include <vector>
 
 #include "parsers/common/input_error.hpp"
-#include "src/model/circuit.hpp"
 
 namespace mirrorcheck::netlist {
 
+enum class ElementKind {
+    resistor, capacitor, inductor, coupling, vsource, isource, vcvs, cccs, vccs, ccvs, behavioural,
+    diode, mosfet, bjt, jfet,
+    other,  // anything else ngspice accepts (switches, lines, XSPICE A devices), kept with its nets
+};
+
+// A line of a source file.
+struct FileLine {
+    std::string file;
+    std::size_t line = 0;
+};
+
+// A `.model` card evaluated for the devices that use it.
+struct FlatModel {
+    std::string name;          // as the device line names it
+    std::string ngspice_name;  // the bin ("nch.9"), prefixed for subcircuit-local models ("xm1:nch")
+    std::string type;          // lower case: nmos, pmos, npn, d, r, ...
+    double level = 1;
+    std::optional<double> version;
+    std::map<std::string, double> parameters;  // the parameters that evaluate to numbers
+    std::map<std::string, std::string> text;   // the others, as written
+    FileLine source;
+};
+
+// One X line on the way from the top level to a device.
+struct FlatInstance {
+    std::string instance;  // lower case, as written ("xm1")
+    std::string subckt;
+    FileLine source;
+};
+
+struct FlatTerminal {
+    std::string role;  // d g s b, c b e s, pos neg, ...
+    std::string net;   // ngspice's flattened net name; ground is "0"
+};
+
+struct FlatDevice {
+    ElementKind kind = ElementKind::other;
+    std::string name;        // ngspice's flattened name: "m.x1.m2"
+    std::string local_name;  // the name on its own line: "m2"
+    std::vector<FlatInstance> hierarchy;   // outermost first
+    std::vector<FlatTerminal> terminals;   // in the order of the element line
+    std::map<std::string, double> parameters;  // instance parameters, evaluated; MOS geometry scaled
+    std::optional<double> value;               // R, C, L, source dc, gain
+    std::map<std::string, std::string> text;   // "transient", "expression", "control", ...
+    std::optional<std::size_t> model;          // index into FlatNetlist::models
+    FileLine source;
+};
+
+// A statement that describes no part of the circuit: a `.control` ... `.endc` block, an
+// analysis (`.op .ac .dc .tran .tf .noise .pz .sens .disto .pss .sp`), an output request
+// (`.save .probe .print .plot .meas .four .width`), or `.end`.
+struct Card {
+    enum class Kind { control_block, analysis, output, end } kind = Kind::analysis;
+    std::string keyword;  // lower case, with its dot: ".tran", ".control", ".end"
+    FileLine first;       // its first physical line
+    std::size_t last_line = 0;  // its last physical line (a continuation, or `.endc`)
+    std::string text;     // as written, continuations joined; `.control` for a control block
+};
+
+// A file named by `.include` or `.lib FILE SECTION`, where it is named and what it resolved to.
+struct FileReference {
+    FileLine where;           // the statement's line
+    std::size_t column = 0;   // where the name starts on that physical line, 1-based (its quote, if quoted)
+    std::size_t length = 0;   // characters of the name as written, quotes included
+    std::string written;      // the name without quotes
+    std::filesystem::path resolved;  // absolute and normal
+    bool library = false;     // `.lib FILE SECTION`
+    bool via_working_folder = false;  // found through ./ rather than the naming file's own folder
+};
+
+// A file the deck read, and how.
+struct ReadFile {
+    std::filesystem::path path;  // absolute and normal
+    // top: the deck itself; included: reached by `.include` from the top file (not through a
+    // library); library: a `.lib` file, or a file reached from one.
+    enum class Role { top, included, library } role = Role::included;
+};
+
+struct FlatNetlist {
+    std::string title;  // the first line
+    std::vector<FlatDevice> devices;
+    std::vector<FlatModel> models;
+    std::vector<std::string> control_blocks;  // each block's text between `.control` and `.endc`
+    std::vector<Card> cards;                  // in reading order
+    std::vector<FileReference> references;    // in reading order
+    std::vector<ReadFile> files;              // in the order first read
+    std::optional<double> temperature;        // `.temp`
+};
+
 // Reads, expands and flattens the netlist at `path`. Throws InputError (codes "netlist.*",
 // "input.*") naming file:line:column and what was expected.
-Circuit read_netlist(const std::filesystem::path& path);
+FlatNetlist read_netlist(const std::filesystem::path& path);
 
 }  // namespace mirrorcheck::netlist

@@ -3,12 +3,14 @@
 
 #include <algorithm>
 #include <cctype>
+#include <optional>
+#include <set>
 #include <system_error>
 
 #include "parsers/common/mapped_file.hpp"
 #include "parsers/netlist/expression.hpp"
 #include "parsers/netlist/netlist_errors.hpp"
-#include "src/model/circuit.hpp"
+#include "parsers/common/text.hpp"
 
 namespace mirrorcheck::netlist::detail {
 
@@ -42,15 +44,46 @@ ValueText value_of(const LogicalLine& line, const std::vector<Token>& tokens, st
     return {text, &line, begin, false};
 }
 
+std::size_t last_physical_line(const LogicalLine& line) {
+    return line.continued.empty() ? line.first.line : line.continued.back().line;
+}
+
+FileLine file_line(const LogicalLine& line) { return {line.file ? *line.file : std::string{}, line.first.line}; }
+
+std::filesystem::path absolute_normal(const std::filesystem::path& p) {
+    std::error_code ec;
+    auto a = std::filesystem::absolute(p, ec);
+    return (ec ? p : a).lexically_normal();
+}
+
+bool is_file(const std::filesystem::path& p) {
+    std::error_code ec;
+    return std::filesystem::is_regular_file(p, ec);
+}
+
+// Statements that describe no part of the circuit.
+std::optional<Card::Kind> card_kind(std::string_view head) {
+    static const std::set<std::string, std::less<>> analyses{".op", ".ac", ".dc", ".tran", ".tf", ".noise", ".pz",
+                                                            ".sens", ".disto", ".pss", ".sp"};
+    static const std::set<std::string, std::less<>> outputs{".save", ".probe", ".print", ".plot", ".meas",
+                                                           ".measure", ".four", ".width"};
+    if (analyses.count(head)) return Card::Kind::analysis;
+    if (outputs.count(head)) return Card::Kind::output;
+    if (head == ".end") return Card::Kind::end;
+    return std::nullopt;
+}
+
 class DeckReader {
 public:
     explicit DeckReader(Deck& deck) : deck_(deck) { stack_.push_back(&deck_.top); }
 
     void read_top(const std::filesystem::path& path) {
-        const SplitFile& file = load(path, nullptr, true);
+        const std::filesystem::path top = absolute_normal(path);
+        working_folder_ = top.parent_path();
+        const SplitFile& file = load(path, nullptr, true, ReadFile::Role::top);
         deck_.title = file.title;
         active_.push_back(canonical_key(path, ""));
-        run(file, path, "");
+        run(file, path, "", Context{ReadFile::Role::top, {}});
         active_.pop_back();
         if (control_) throw errors::unterminated_block(control_where_, ".control", ".endc");
         if (!conditionals_.empty()) throw errors::unterminated_block(conditionals_.back().where, ".if", ".endif");
@@ -59,7 +92,15 @@ public:
     }
 
 private:
+    // How the lines being read were reached: from the top file through `.include`s, or
+    // through a library (whose own `.lib` references resolve against its folder).
+    struct Context {
+        ReadFile::Role role = ReadFile::Role::top;
+        std::filesystem::path library_folder;  // for Role::library
+    };
+
     Deck& deck_;
+    std::filesystem::path working_folder_;  // the top file's folder, where ngspice runs the deck
     std::vector<SubcktDef*> stack_;
     std::vector<std::string> active_;  // files and sections being read, for cycles
     // `.if` blocks: for each open one, whether a branch was taken and whether lines are read.
@@ -70,8 +111,8 @@ private:
     };
     std::vector<Conditional> conditionals_;
     bool control_ = false;
-    bool ended_ = false;
     Location control_where_;
+    const LogicalLine* control_line_ = nullptr;
     std::string control_text_;
 
     static std::string canonical_key(const std::filesystem::path& path, const std::string& section) {
@@ -81,7 +122,8 @@ private:
     }
 
     // Reads and splits a file once; the top file is split apart, its first line a title.
-    const SplitFile& load(const std::filesystem::path& path, const Location* from, bool title) {
+    const SplitFile& load(const std::filesystem::path& path, const Location* from, bool title, ReadFile::Role role,
+                          bool library = false) {
         std::string key = canonical_key(path, title ? "title" : "");
         auto it = deck_.files.find(key);
         if (it != deck_.files.end()) return *it->second;
@@ -90,21 +132,23 @@ private:
             mapped = std::make_unique<MappedFile>(path);
         } catch (const InputError& e) {
             if (!from) throw;
+            if (library) throw errors::missing_library(*from, path.string(), e.message());
             throw errors::missing_include(*from, path.string(), e.message());
         }
         deck_.file_names.push_back(path.string());
+        deck_.read_files.push_back({absolute_normal(path), role});
         auto split = std::make_unique<SplitFile>(split_lines(mapped->bytes(), &deck_.file_names.back(), title));
         return *deck_.files.emplace(key, std::move(split)).first->second;
     }
 
     // Reads a file's lines; with a section, only the lines of its `.lib section` block.
     // Returns false when the section is not in the file.
-    bool run(const SplitFile& file, const std::filesystem::path& path, const std::string& section) {
+    bool run(const SplitFile& file, const std::filesystem::path& path, const std::string& section,
+             const Context& context) {
         bool in_section = section.empty();
         bool found = section.empty();
         std::string skipping;  // a `.lib name` block being skipped
         for (const LogicalLine& line : file.lines) {
-            if (ended_) break;
             if (control_) {
                 control_line(line);
                 continue;
@@ -129,7 +173,7 @@ private:
             }
             if (!in_section || !skipping.empty()) continue;
             if (conditional(line)) continue;
-            statement(line, path);
+            statement(line, path, context);
         }
         return found;
     }
@@ -145,6 +189,8 @@ private:
             control_ = false;
             deck_.control_blocks.push_back(std::move(control_text_));
             control_text_.clear();
+            deck_.cards.push_back({Card::Kind::control_block, ".control", file_line(*control_line_),
+                                   last_physical_line(line), ".control"});
             return;
         }
         control_text_ += line.text;
@@ -207,7 +253,7 @@ private:
         }
     }
 
-    void statement(const LogicalLine& line, const std::filesystem::path& path) {
+    void statement(const LogicalLine& line, const std::filesystem::path& path, const Context& context) {
         std::string head = first_word(line);
         if (head.empty()) return;
         if (head[0] != '.') {
@@ -220,10 +266,11 @@ private:
         if (head == ".control") {
             control_ = true;
             control_where_ = line.locate(0);
+            control_line_ = &line;
             return;
         }
-        if (head == ".end") {
-            ended_ = true;
+        if (auto kind = card_kind(head)) {
+            deck_.cards.push_back({*kind, head, file_line(line), last_physical_line(line), line.text});
             return;
         }
         if (head == ".endc") throw errors::stray_statement(line.locate(0), ".endc");
@@ -233,8 +280,8 @@ private:
         if (head == ".model") return model(line, tokens);
         if (head == ".param") return param(line, tokens);
         if (head == ".func") return function(line, tokens);
-        if (head == ".include" || head == ".inc") return include(line, tokens, path);
-        if (head == ".lib") return library(line, tokens, path);
+        if (head == ".include" || head == ".inc") return include(line, tokens, path, context);
+        if (head == ".lib") return library(line, tokens, context);
         if (head == ".global") return global(tokens);
         if (head == ".option" || head == ".options" || head == ".opt") return option(line, tokens);
         if (head == ".temp" && tokens.size() >= 2) {
@@ -324,29 +371,68 @@ private:
         return tokens[i].text;
     }
 
-    void include(const LogicalLine& line, const std::vector<Token>& tokens, const std::filesystem::path& from) {
-        std::string name = path_argument(line, tokens, 1, "a file name after `.include`");
-        read_file(line, from.parent_path() / name, "");
+    // ngspice's search for a relative name: the working folder first, then `own_folder`.
+    FileReference resolve(const LogicalLine& line, const Token& name_token, const std::filesystem::path& own_folder,
+                          bool library, bool folder_is_top) const {
+        FileReference ref;
+        ref.where = file_line(line);
+        Location at = line.locate(name_token.offset);
+        ref.column = at.column;
+        ref.length = name_token.end - name_token.offset;
+        ref.written = name_token.text;
+        ref.library = library;
+        const std::filesystem::path name(name_token.text);
+        if (name.is_absolute()) {
+            ref.resolved = name.lexically_normal();
+            return ref;
+        }
+        const std::filesystem::path in_working = (working_folder_ / name).lexically_normal();
+        const std::filesystem::path in_own = absolute_normal(own_folder / name);
+        ref.resolved = is_file(in_working) ? in_working : in_own;
+        // Read from another folder, a copy of the naming file would look elsewhere.
+        ref.via_working_folder = folder_is_top || (ref.resolved == in_working && in_working != in_own);
+        return ref;
     }
 
-    void library(const LogicalLine& line, const std::vector<Token>& tokens, const std::filesystem::path& from) {
+    void include(const LogicalLine& line, const std::vector<Token>& tokens, const std::filesystem::path& from,
+                 const Context& context) {
+        path_argument(line, tokens, 1, "a file name after `.include`");
+        FileReference ref = resolve(line, tokens[1], absolute_normal(from).parent_path(), false,
+                                    context.role == ReadFile::Role::top);
+        if (context.role == ReadFile::Role::library) ref.via_working_folder = false;
+        deck_.references.push_back(ref);
+        Context inner = context;
+        if (inner.role == ReadFile::Role::top) inner.role = ReadFile::Role::included;
+        read_file(line, ref.resolved, "", inner, false);
+    }
+
+    void library(const LogicalLine& line, const std::vector<Token>& tokens, const Context& context) {
         // `.lib name` (a section start) is handled by run(); here `.lib file section`.
-        std::string name = path_argument(line, tokens, 1, "a file name after `.lib`");
+        path_argument(line, tokens, 1, "a file name after `.lib`");
         if (tokens.size() < 3)
             throw errors::netlist_syntax(line.locate(line.text.size()), "a section name after `.lib file`", "");
-        read_file(line, from.parent_path() / name, to_lower(tokens[2].text));
+        const bool in_library = context.role == ReadFile::Role::library;
+        FileReference ref = resolve(line, tokens[1], in_library ? context.library_folder : working_folder_, true,
+                                    !in_library);
+        deck_.references.push_back(ref);
+        // A library is read from its real path (ngspice: realpath), and its own names
+        // resolve against that folder.
+        std::error_code ec;
+        auto real = std::filesystem::canonical(ref.resolved, ec);
+        const std::filesystem::path library = ec ? ref.resolved : real;
+        Context inner{ReadFile::Role::library, library.parent_path()};
+        read_file(line, library, to_lower(tokens[2].text), inner, true);
     }
 
-    void read_file(const LogicalLine& line, const std::filesystem::path& path, const std::string& section) {
+    void read_file(const LogicalLine& line, const std::filesystem::path& path, const std::string& section,
+                   const Context& context, bool library) {
         Location where = line.locate(0);
         std::string key = canonical_key(path, section);
         if (std::find(active_.begin(), active_.end(), key) != active_.end())
             throw errors::include_cycle(where, section.empty() ? path.string() : path.string() + " " + section);
-        const SplitFile& file = load(path, &where, false);
+        const SplitFile& file = load(path, &where, false, context.role, library);
         active_.push_back(key);
-        bool ended = ended_;
-        if (!run(file, path, section)) throw errors::missing_lib_section(where, path.string(), section);
-        ended_ = ended;  // `.end` in an included file ends only that file
+        if (!run(file, path, section, context)) throw errors::missing_lib_section(where, path.string(), section);
         active_.pop_back();
     }
 

@@ -1,9 +1,13 @@
 // Private to the netlist reader: the deck, i.e. the files read into definitions before any
-// flattening. Reading follows `.include` and `.lib file section` (paths relative to the
-// including file; a file or section already being read is a cycle), collects `.subckt`
+// flattening. Reading follows `.include` and `.lib file section` (paths resolved as
+// netlist.hpp says; a file or section already being read is a cycle), collects `.subckt`
 // definitions (nested ones inside their parent), `.model` cards, `.param` assignments,
 // `.global` nets, `.option scale`, and keeps element lines for the flattener, which needs
-// every model known before it can tell nodes from model names.
+// every model known before it can tell nodes from model names. It also records the cards
+// that describe no part of the circuit and every file reference, for derived copies.
+//
+// `.end` does not stop the reading: ngspice 39 comments it out and reads on (a resistor
+// after `.end` is in its circuit; checked with `print` of the source current).
 #pragma once
 
 #include <cstddef>
@@ -17,6 +21,7 @@
 #include <unordered_map>
 #include <vector>
 
+#include "parsers/netlist/netlist.hpp"
 #include "parsers/netlist/netlist_lines.hpp"
 
 namespace mirrorcheck::netlist::detail {
@@ -71,6 +76,9 @@ struct Deck {
     bool divide_width_by_nf = false;  // `.option wnflag=1`, for model binning
     std::optional<double> temperature;
     std::vector<std::string> control_blocks;
+    std::vector<Card> cards;
+    std::vector<FileReference> references;
+    std::vector<ReadFile> read_files;
     // Storage the definitions point into.
     std::deque<std::string> file_names;
     std::map<std::string, std::unique_ptr<SplitFile>> files;

@@ -72,8 +72,16 @@ InputError hierarchy_too_deep(const Location& where, std::size_t levels) {
 
 InputError missing_include(const Location& where, std::string_view file, std::string_view reason) {
     return {"netlist.missing-include", where,
-            fmt::format("cannot read the included file `{}`: {} (paths are relative to the including file)", file,
-                        reason)};
+            fmt::format("cannot read the included file `{}`: {} (as ngspice run in the deck's folder, a relative "
+                        "name is looked for in that folder, then beside the including file)",
+                        file, reason)};
+}
+
+InputError missing_library(const Location& where, std::string_view file, std::string_view reason) {
+    return {"netlist.missing-library", where,
+            fmt::format("cannot read the library file `{}`: {} (as ngspice run in the deck's folder, a relative "
+                        "name is looked for in that folder, then, inside a library, beside that library)",
+                        file, reason)};
 }
 
 InputError include_cycle(const Location& where, std::string_view file) {

@@ -23,6 +23,7 @@ InputError missing_nodes(const Location& where, std::string_view device, std::st
 InputError recursive_subckt(const Location& where, std::string_view name);
 InputError hierarchy_too_deep(const Location& where, std::size_t levels);
 InputError missing_include(const Location& where, std::string_view file, std::string_view reason);
+InputError missing_library(const Location& where, std::string_view file, std::string_view reason);
 InputError include_cycle(const Location& where, std::string_view file);
 InputError missing_lib_section(const Location& where, std::string_view file, std::string_view section);
 InputError unterminated_block(const Location& where, std::string_view opener, std::string_view closer);

@@ -35,6 +35,7 @@ struct ReviewInputs {
     std::string netlist;
     std::string op_source;                      // file and plot (or listing) the operating point came from
     std::vector<std::string> simulation_files;  // raw files whose AC or .tf plots were read
+    std::vector<std::string> left_out = {};     // `run`: cards of the netlist its deck left out ("file:line: card")
 };
 
 // The thresholds and choices a review was made with, as numbers (SI; fractions for

@@ -3,7 +3,7 @@
 #include <iostream>
 #include <memory>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "src/recognise/find_mirrors.hpp"
 #include "src/report/mirror_list.hpp"
 
@@ -16,7 +16,7 @@ struct ListOptions {
 };
 
 int run_list(const ListOptions& o) {
-    Circuit circuit = netlist::read_netlist(o.netlist);
+    Circuit circuit = read_circuit(o.netlist);
     std::vector<Mirror> mirrors = find_mirrors(circuit);
     if (o.format == "json") std::cout << report::mirrors_to_json(circuit, mirrors).dump(2) << "\n";
     else std::cout << report::write_mirror_table(circuit, mirrors);

@@ -5,7 +5,7 @@
 
 #include "parsers/common/input_kind.hpp"
 #include "parsers/listing/listing.hpp"
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/cli/usage_errors.hpp"
 #include "src/report/circuit_dump.hpp"
@@ -48,7 +48,7 @@ void peek_listing(const PeekOptions& o) {
 
 void peek_netlist(const PeekOptions& o) {
     if (!o.vectors.empty() || !o.plots.empty()) throw usage::option_needs_raw(o.file);
-    Circuit circuit = netlist::read_netlist(o.file);
+    Circuit circuit = read_circuit(o.file);
     if (o.format == "json") std::cout << report::circuit_to_json(circuit).dump(2) << "\n";
     else std::cout << report::write_circuit_table(circuit);
 }

@@ -15,6 +15,7 @@
 #include "src/cli/usage_errors.hpp"
 #include "src/deck/ngspice_runner.hpp"
 #include "src/deck/review_deck.hpp"
+#include "src/model/circuit_build.hpp"
 #include "src/recognise/find_mirrors.hpp"
 
 namespace mirrorcheck::cli {
@@ -30,7 +31,7 @@ struct DeckRequest {
 };
 
 void add_deck_options(CLI::App& cmd, DeckRequest& r) {
-    cmd.add_option("NETLIST", r.netlist, "ngspice netlist (included unchanged)")->required()->check(CLI::ExistingFile);
+    cmd.add_option("NETLIST", r.netlist, "ngspice netlist, as it is (never edited)")->required()->check(CLI::ExistingFile);
     cmd.add_option("--mode", r.mode,
                    "probe mode: injected (an AC current into each output as the circuit has it) or held (an AC "
                    "voltage through a coupling capacitor, the other outputs held at AC ground) (default injected)")
@@ -41,7 +42,7 @@ void add_deck_options(CLI::App& cmd, DeckRequest& r) {
         ->check(CLI::Range(1, 1000));
 }
 
-ReviewDeck make_deck(const DeckRequest& r, const std::string& raw_name) {
+DeckOptions deck_options(const DeckRequest& r) {
     DeckOptions options;
     options.mode = r.mode == "held" ? ProbeMode::held : ProbeMode::injected;
     options.from = quantity("--from", r.from, "Hz");
@@ -49,9 +50,38 @@ ReviewDeck make_deck(const DeckRequest& r, const std::string& raw_name) {
     if (!(options.from > 0) || !(options.to > options.from))
         throw usage::sweep_not_upwards(r.from, r.to);
     options.points_per_decade = r.points_per_decade;
-    options.raw_name = raw_name;
-    Circuit circuit = netlist::read_netlist(r.netlist);
-    return write_review_deck(r.netlist, circuit, find_mirrors(circuit), options);
+    return options;
+}
+
+// The designer's netlist as read, its Circuit, and the review deck around it.
+struct Prepared {
+    Circuit circuit;
+    ReviewDeck deck;
+};
+
+Prepared prepare_deck(const DeckRequest& r, DeckOptions options, const fs::path& deck_path, const fs::path& raw_path) {
+    options.deck_path = deck_path;
+    options.raw_path = raw_path;
+    const netlist::FlatNetlist netlist = netlist::read_netlist(r.netlist);
+    Prepared p{build_circuit(netlist), {}};
+    p.deck = write_review_deck(netlist, p.circuit, find_mirrors(p.circuit), options);
+    // Never write over a file the deck reads.
+    for (const auto& f : netlist.files)
+        for (const fs::path& written : {p.deck.path, fs::path(raw_path)})
+            if (fs::exists(written) && fs::equivalent(written, f.path))
+                throw usage::would_overwrite_input(written.string(), f.path.string());
+    for (const auto& copy : p.deck.included)
+        for (const auto& f : netlist.files)
+            if (fs::exists(copy.path) && fs::equivalent(copy.path, f.path))
+                throw usage::copy_would_overwrite_input(copy.path.string());
+    save_review_deck(p.deck);
+    return p;
+}
+
+std::vector<std::string> left_out_lines(const ReviewDeck& deck) {
+    std::vector<std::string> lines;
+    for (const auto& card : deck.left_out) lines.push_back(to_string(card));
+    return lines;
 }
 
 // prepare ---------------------------------------------------------------------------
@@ -61,25 +91,32 @@ struct PrepareRequest {
     std::string output;
 };
 
+std::string shell_word(const fs::path& p) {
+    std::string s = p.string();
+    return s.find_first_of(" \t'\"$") == std::string::npos ? s : "'" + s + "'";
+}
+
 int run_prepare(const PrepareRequest& r) {
-    const fs::path deck_path = fs::absolute(r.output);
-    const std::string raw_name = deck_path.stem().string() + ".raw";
-    ReviewDeck deck = make_deck(r.deck, raw_name);
-    if (fs::exists(deck_path) && fs::equivalent(deck_path, fs::absolute(r.deck.netlist)))
-        throw usage::would_overwrite_netlist(r.output);
-    std::ofstream out(deck_path, std::ios::binary);
-    out << deck.text;
-    if (!out) throw usage::cannot_write(r.output);
-    const fs::path folder = deck_path.parent_path();
+    const fs::path deck_path = fs::absolute(r.output).lexically_normal();
+    const fs::path raw_path = deck_path.parent_path() / (deck_path.stem().string() + ".raw");
+    Prepared p = prepare_deck(r.deck, deck_options(r.deck), deck_path, raw_path);
+    const ReviewDeck& deck = p.deck;
     std::cout << fmt::format("wrote {} with {} probe{}:\n", r.output, deck.probes.size(),
                              deck.probes.size() == 1 ? "" : "s");
-    for (const auto& p : deck.probes) std::cout << fmt::format("  {:<14} {} ({})\n", p.source, p.node, p.mirror);
+    for (const auto& pr : deck.probes) std::cout << fmt::format("  {:<14} {} ({})\n", pr.source, pr.node, pr.mirror);
+    for (const auto& copy : deck.included)
+        std::cout << fmt::format("also a derived copy of {}: {}\n", copy.original.string(), copy.path.string());
+    if (!deck.left_out.empty()) {
+        std::cout << "left out of the review deck (the review runs its own analyses):\n";
+        for (const auto& line : left_out_lines(deck)) std::cout << "  " << line << "\n";
+    }
     for (const auto& n : deck.notes) std::cout << "note: " << n << "\n";
-    std::cout << fmt::format("\nrun ngspice in {} (it writes {} there):\n  cd {} && ngspice -b {}\n", folder.string(),
-                             raw_name, folder.string(), deck_path.filename().string());
+    std::cout << fmt::format("\nrun ngspice in the netlist's folder, where its relative paths resolve (it writes {}):\n"
+                             "  cd {} && ngspice -b {}\n",
+                             raw_path.string(), shell_word(deck.run_folder), shell_word(deck_path));
     std::cout << fmt::format("then review the deck (it holds the probes) against its results:\n"
                              "  mirrorcheck review {} --op {}\n",
-                             deck_path.string(), (folder / raw_name).string());
+                             shell_word(deck_path), shell_word(raw_path));
     return 0;
 }
 
@@ -101,8 +138,9 @@ fs::path temporary_folder() {
 }
 
 int run_run(RunRequest r) {
+    const DeckOptions options = deck_options(r.deck);
     const bool keep = !r.keep.empty();
-    const fs::path folder = keep ? fs::absolute(r.keep) : temporary_folder();
+    const fs::path folder = keep ? fs::absolute(r.keep).lexically_normal() : temporary_folder();
     if (keep) fs::create_directories(folder);
     struct Cleanup {
         fs::path folder;
@@ -113,23 +151,29 @@ int run_run(RunRequest r) {
         }
     } cleanup{folder, keep};
 
+    const fs::path raw = folder / "review.raw";
+    Prepared p = prepare_deck(r.deck, options, folder / "review.cir", raw);
     NgspiceCall call;
     call.executable = r.ngspice;
-    call.folder = folder;
-    ReviewDeck deck = make_deck(r.deck, "review.raw");
-    run_ngspice_batch(call, deck.text);
-    const fs::path raw = folder / "review.raw";
+    call.deck = p.deck.path;
+    call.log = folder / "ngspice.log";
+    call.run_folder = p.deck.run_folder;
+    std::error_code ec;
+    fs::remove(raw, ec);  // a kept folder's results of an earlier run
+    run_ngspice_batch(call);
     if (!fs::exists(raw)) throw ngspice_failure(call, "wrote no results");
     {
         auto headers = raw::read_raw(raw, raw::Selection{{}, true});
         bool has_op = false;
-        for (const auto& p : headers.plots) has_op = has_op || p.kind() == "op";
+        for (const auto& plot : headers.plots) has_op = has_op || plot.kind() == "op";
         if (!has_op) throw ngspice_failure(call, "wrote no operating point");
     }
-    for (const auto& n : deck.notes) std::cerr << "note: " << n << "\n";
-    r.review.netlist = (folder / call.deck_name).string();
+    for (const auto& n : p.deck.notes) std::cerr << "note: " << n << "\n";
+    for (const auto& line : left_out_lines(p.deck)) std::cerr << "note: left out of the review deck: " << line << "\n";
+    add_deck_probes(p.circuit, p.deck);
+    r.review.netlist = r.deck.netlist;
     r.review.op = raw.string();
-    int status = review_and_report(r.review);
+    int status = review_circuit_and_report(r.review, p.circuit, left_out_lines(p.deck));
     if (keep) std::cerr << fmt::format("kept the deck, ngspice's log and results in {}\n", folder.string());
     return status;
 }
@@ -140,10 +184,13 @@ void add_prepare_command(CLI::App& app, int& status) {
     auto r = std::make_shared<PrepareRequest>();
     CLI::App* cmd = app.add_subcommand("prepare", "Write an ngspice deck that produces everything a review needs");
     cmd->footer(
-        "The deck includes the netlist unchanged, saves every transistor's operating-point\n"
-        "parameters, and measures each mirror output's impedance in an AC run of its own,\n"
-        "through a probe that carries no DC current (so no bias point moves). It writes\n"
-        "DECK-STEM.raw beside the deck; `review DECK --op DECK-STEM.raw` reads it.\n\n"
+        "The deck is a derived copy of the netlist, line for line: its own .control blocks,\n"
+        "analyses and output requests (but .save) become comment lines, relative file names\n"
+        "become absolute; then it saves every transistor's operating-point parameters and\n"
+        "measures each mirror output's impedance in an AC run of its own, through a probe\n"
+        "that carries no DC current (so no bias point moves), with the netlist's own AC\n"
+        "sources at zero. It lists what it left out. Run ngspice in the netlist's folder;\n"
+        "it writes DECK-STEM.raw beside the deck; `review DECK --op DECK-STEM.raw` reads it.\n\n"
         "Examples:\n"
         "  mirrorcheck prepare samples/tamarack/bias.cir -o /tmp/bias_review.cir\n"
         "  mirrorcheck prepare amp.cir -o amp_review.cir --mode held --from 10Hz --to 100MHz");
@@ -156,9 +203,10 @@ void add_run_command(CLI::App& app, int& status) {
     auto r = std::make_shared<RunRequest>();
     CLI::App* cmd = app.add_subcommand("run", "Prepare the deck, simulate it with ngspice, and review the results");
     cmd->footer(
-        "prepare, then ngspice in batch mode in a temporary folder, then review. The exit\n"
-        "status is the review's (0 or 1), or 2 when ngspice is missing, fails or does not\n"
-        "converge; then the end of its log is printed.\n\n"
+        "prepare (the deck and its results in a temporary folder), then ngspice in batch mode\n"
+        "in the netlist's own folder (where its relative paths resolve), then the review of the\n"
+        "netlist with the deck's probes. The exit status is the review's (0 or 1), or 2 when\n"
+        "ngspice is missing, fails or does not converge; then the end of its log is printed.\n\n"
         "Examples:\n"
         "  mirrorcheck run samples/tamarack/bias.cir\n"
         "  mirrorcheck run amp.cir --keep amp_review --format json --ngspice /opt/ngspice/bin/ngspice");

@@ -6,7 +6,7 @@
 #include "parsers/common/input_kind.hpp"
 #include "parsers/common/quantity.hpp"
 #include "parsers/listing/listing.hpp"
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/analyse/pipeline.hpp"
 #include "src/cli/usage_errors.hpp"
@@ -94,17 +94,30 @@ OpPoint read_op(const Circuit& circuit, const std::string& path) {
 
 }  // namespace
 
-int review_and_report(const ReviewOptions& o) {
-    const ReviewSettings settings = review_settings(o);
-    Circuit circuit = netlist::read_netlist(o.netlist);
+namespace {
+
+int review_with(const ReviewOptions& o, const ReviewSettings& settings, const Circuit& circuit,
+                const std::vector<std::string>& left_out) {
     OpPoint op = read_op(circuit, o.op);
     std::vector<std::string> simulation_files;
     std::vector<SimulationPlot> plots = read_simulation_plots(o, simulation_files);
-    const ReviewTree tree = run_review(circuit, op, plots, settings, ReviewInputs{o.netlist, op.origin, simulation_files});
+    const ReviewTree tree =
+        run_review(circuit, op, plots, settings, ReviewInputs{o.netlist, op.origin, simulation_files, left_out});
     const Terminal terminal = stdout_terminal();
     report::TableStyle style{terminal.width, terminal.colour, o.summary};
     report::write_review(report::parse_format(o.format).value_or(report::Format::table), tree, std::cout, style);
     return tree.summary.passed ? exit_passed : exit_findings;
+}
+
+}  // namespace
+
+int review_and_report(const ReviewOptions& o) {
+    const ReviewSettings settings = review_settings(o);
+    return review_with(o, settings, read_circuit(o.netlist), {});
+}
+
+int review_circuit_and_report(const ReviewOptions& o, const Circuit& circuit, const std::vector<std::string>& left_out) {
+    return review_with(o, review_settings(o), circuit, left_out);
 }
 
 void add_judgement_options(CLI::App& cmd, ReviewOptions& o) {

@@ -6,6 +6,8 @@
 
 #include <CLI/CLI.hpp>
 
+#include "src/model/circuit.hpp"
+
 namespace mirrorcheck::cli {
 
 // Everything `review` is asked on its command line, as typed.
@@ -28,6 +30,11 @@ struct ReviewOptions {
 // Reads the inputs, reviews, prints the report; returns 1 when a finding fails the review
 // (at --fail-on or worse, not waived), else 0.
 int review_and_report(const ReviewOptions& options);
+
+// The same for a circuit already built (`run`: the designer's netlist with the probes its
+// deck added); `left_out` lists the cards the simulated deck left out ("file:line: card").
+int review_circuit_and_report(const ReviewOptions& options, const Circuit& circuit,
+                              const std::vector<std::string>& left_out);
 
 // The options that judge the circuit and shape the report, shared with `run`.
 void add_judgement_options(CLI::App& cmd, ReviewOptions& options);

@@ -63,12 +63,14 @@ InputError sweep_not_upwards(const std::string& from, const std::string& to) {
             fmt::format("the AC sweep must run from a positive frequency up: --from {} --to {}", from, to)};
 }
 
-InputError would_overwrite_netlist(const std::string& output) {
-    return {"usage.output", Location(output), "the deck would overwrite the netlist; choose another -o"};
+InputError would_overwrite_input(const std::string& output, const std::string& input) {
+    return {"usage.output", Location(output),
+            fmt::format("this would overwrite {}, which the netlist reads; choose another -o", input)};
 }
 
-InputError cannot_write(const std::string& output) {
-    return {"usage.output", Location(output), "cannot write the deck here"};
+InputError copy_would_overwrite_input(const std::string& copy) {
+    return {"usage.output", Location(copy),
+            "a derived copy would overwrite a file the netlist reads; write the deck elsewhere"};
 }
 
 InputError no_temporary_folder(const std::string& where) {

@@ -17,8 +17,8 @@ InputError no_op_plot(const std::string& path);
 InputError bad_probe(const std::string& text);
 InputError no_small_signal_plot(const std::string& path);
 InputError sweep_not_upwards(const std::string& from, const std::string& to);
-InputError would_overwrite_netlist(const std::string& output);
-InputError cannot_write(const std::string& output);
+InputError would_overwrite_input(const std::string& output, const std::string& input);
+InputError copy_would_overwrite_input(const std::string& copy);
 InputError no_temporary_folder(const std::string& where);
 
 }  // namespace mirrorcheck::cli::usage

@@ -1,3 +1,4 @@
+// The deck writer's and the ngspice runner's error catalogue.
 #include "src/deck/deck_errors.hpp"
 
 #include <fmt/format.h>
@@ -28,11 +29,16 @@ InputError ngspice_failed(const std::string& log_path, const std::string& what, 
             fmt::format("ngspice {} on {}. The end of its log:{}", what, deck_name, log_tail)};
 }
 
-InputError title_line(const std::string& netlist, const std::string& line) {
-    return {"prepare.title-line", Location(netlist, 1, 1),
-            fmt::format("the first line `{}` is the deck's title; included into another deck, ngspice would read it "
-                        "as an element. Start it with `*` (a comment) so the netlist can be included unchanged",
-                        line)};
+InputError card_in_library(const Location& where, std::string_view keyword) {
+    return {"prepare.card-in-library", where,
+            fmt::format("this library section holds `{}`, which the review deck must leave out, but a library is "
+                        "read by ngspice from its own file and cannot be given a derived copy; move the card into "
+                        "the deck",
+                        keyword)};
+}
+
+InputError cannot_write(const Location& where, std::string_view what) {
+    return {"prepare.cannot-write", where, fmt::format("cannot write {} here", what)};
 }
 
 }  // namespace mirrorcheck::errors

@@ -1,7 +1,9 @@
-// Errors of the review deck and the ngspice batch run, each written once.
+// Errors of `prepare` and `run`: in the user's deck, found before ngspice runs, and of the
+// ngspice batch run. Each message is written once, here, with a stable code.
 #pragma once
 
 #include <string>
+#include <string_view>
 
 #include "parsers/common/input_error.hpp"
 
@@ -12,6 +14,7 @@ InputError ngspice_missing(const std::string& executable, const std::string& log
 InputError ngspice_no_convergence(const std::string& log_path, const std::string& log_tail);
 InputError ngspice_failed(const std::string& log_path, const std::string& what, const std::string& deck_name,
                           const std::string& log_tail);
-InputError title_line(const std::string& netlist, const std::string& line);
+InputError card_in_library(const Location& where, std::string_view keyword);
+InputError cannot_write(const Location& where, std::string_view what);
 
 }  // namespace mirrorcheck::errors

@@ -1,3 +1,4 @@
+// Runs ngspice in batch mode in a given folder and reads the end of its log on failure.
 #include "src/deck/ngspice_runner.hpp"
 
 #include "src/deck/deck_errors.hpp"
@@ -48,21 +49,15 @@ bool contains(const std::string& haystack, const char* needle) {
 
 }  // namespace
 
-void run_ngspice_batch(const NgspiceCall& call, const std::string& deck) {
-    const auto deck_path = call.folder / call.deck_name, log_path = call.folder / call.log_name;
-    {
-        std::ofstream out(deck_path, std::ios::binary);
-        out << deck;
-        if (!out)
-            throw errors::deck_not_writable(deck_path.string());
-    }
+void run_ngspice_batch(const NgspiceCall& call) {
+    const auto& log_path = call.log;
     // A path given relative to where mirrorcheck runs must survive the change of folder.
     const std::string executable = call.executable.find('/') == std::string::npos
                                        ? call.executable
                                        : std::filesystem::absolute(call.executable).string();
-    const std::string command = fmt::format("cd {} && {} -b {} > {} 2>&1 < /dev/null", shell_quoted(call.folder.string()),
-                                            shell_quoted(executable), shell_quoted(call.deck_name),
-                                            shell_quoted(call.log_name));
+    const std::string command =
+        fmt::format("cd {} && {} -b {} > {} 2>&1 < /dev/null", shell_quoted(call.run_folder.string()),
+                    shell_quoted(executable), shell_quoted(call.deck.string()), shell_quoted(call.log.string()));
     const int raw = std::system(command.c_str());
     const int status = raw == -1 ? -1 : WIFEXITED(raw) ? WEXITSTATUS(raw) : 128 + WTERMSIG(raw);
     const std::string log = read_all(log_path);
@@ -76,8 +71,7 @@ void run_ngspice_batch(const NgspiceCall& call, const std::string& deck) {
 }
 
 InputError ngspice_failure(const NgspiceCall& call, const std::string& what) {
-    const auto log_path = call.folder / call.log_name;
-    return errors::ngspice_failed(log_path.string(), what, call.deck_name, tail(read_all(log_path), 12));
+    return errors::ngspice_failed(call.log.string(), what, call.deck.string(), tail(read_all(call.log), 12));
 }
 
 }  // namespace mirrorcheck

@@ -1,5 +1,5 @@
-// Runs ngspice in batch mode on a deck, in a folder of its own, and says clearly when it
-// cannot: not installed, failed, or did not converge.
+// Runs ngspice in batch mode on a deck and says clearly when it cannot: not installed,
+// failed, or did not converge.
 #pragma once
 
 #include <filesystem>
@@ -11,16 +11,15 @@ namespace mirrorcheck {
 
 struct NgspiceCall {
     std::string executable = "ngspice";  // a name looked up on PATH, or a path
-    std::filesystem::path folder;        // working folder; the deck is written and run here
-    std::string deck_name = "review.cir";
-    std::string log_name = "ngspice.log";
+    std::filesystem::path deck;          // absolute
+    std::filesystem::path log;           // absolute: ngspice's stdout and stderr
+    std::filesystem::path run_folder;    // ngspice's working folder (the user's deck folder)
 };
 
-// Writes `deck` into the folder and runs `executable -b deck_name` there, its output going
-// to log_name. Throws InputError with code "ngspice.missing" (the executable could not be
-// started), "ngspice.failed" (non-zero exit status or an error in its log) or
-// "ngspice.no-convergence", each with the end of the log.
-void run_ngspice_batch(const NgspiceCall& call, const std::string& deck);
+// Runs `executable -b deck` in run_folder, its output going to log. Throws InputError with
+// code "ngspice.missing" (the executable could not be started), "ngspice.failed" (non-zero
+// exit status or an error in its log) or "ngspice.no-convergence", each with the end of the log.
+void run_ngspice_batch(const NgspiceCall& call);
 
 // The "ngspice.failed" error for a run that ended but did not produce what was expected,
 // with `what` ("wrote no operating point") and the end of the log.

@@ -1,13 +1,20 @@
-// Writes the ngspice deck that produces everything a review needs from a bare netlist:
-// the operating point with every transistor's parameters saved, and one AC run per
-// mirror output through a probe that cannot move the bias. review_deck.cpp describes the
-// deck line by line.
+// Writes the ngspice deck that produces everything a review needs from the designer's deck
+// as it is: the derived copy of the deck (derived_deck.hpp) followed by the review's probes
+// and its own control block, with the operating point and every transistor's parameters
+// saved, and one AC run per mirror output through a probe that cannot move the bias.
+// review_deck.cpp describes the appended lines.
+//
+// ngspice runs the deck in the user's deck folder (`run_folder`), as the user's own run
+// would: every name the deck's files resolve through the working folder is then the same.
+// The deck and all it writes are named by absolute path in the work folder.
 #pragma once
 
 #include <filesystem>
 #include <string>
 #include <vector>
 
+#include "parsers/netlist/netlist.hpp"
+#include "src/deck/derived_deck.hpp"
 #include "src/model/circuit.hpp"
 #include "src/recognise/find_mirrors.hpp"
 
@@ -26,7 +33,8 @@ struct DeckOptions {
     double from = 1.0;            // Hz, first AC point
     double to = 1e9;              // Hz, last AC point
     int points_per_decade = 10;
-    std::string raw_name = "review.raw";  // the raw file the deck writes, relative to ngspice's working folder
+    std::filesystem::path deck_path;  // where the deck will be written; its folder takes the copies
+    std::filesystem::path raw_path;   // the raw file the deck writes
 };
 
 struct DeckProbe {
@@ -36,18 +44,32 @@ struct DeckProbe {
     // own_source: the netlist's voltage source on the node; held: an AC-coupled voltage
     // source; injected: a current source.
     enum class Kind { own_source, held, injected } kind = Kind::injected;
+    std::string coupling;  // held: the coupling capacitor
+    std::string net;       // held: the net between the source and the capacitor
+    bool added = false;    // written into the deck (not the netlist's own source)
+    std::size_t line = 0;  // added: the deck line of its (first) element
 };
 
 struct ReviewDeck {
-    std::string text;                 // the whole deck
-    std::vector<DeckProbe> probes;    // one per output node, in run order
-    std::vector<std::string> notes;   // what the user should know (the netlist's own .control, ...)
+    std::filesystem::path path;          // where it is to be written
+    std::filesystem::path run_folder;    // where ngspice must run it: the user's deck folder
+    std::string text;                    // the whole deck
+    std::vector<DerivedFile> included;   // derived copies of included files, written beside it
+    std::vector<DeckProbe> probes;       // one per output node, in run order
+    std::vector<LeftOutCard> left_out;   // what the deck leaves out of the user's files
+    std::vector<std::string> notes;      // what the user should know
 };
 
-// The deck for `netlist` (read as `circuit`, whose mirrors are `mirrors`). The netlist is
-// included by its absolute path, unchanged. Throws InputError "prepare.title-line" when the
-// netlist's first line is a title that ngspice would read as an element once included.
-ReviewDeck write_review_deck(const std::filesystem::path& netlist, const Circuit& circuit,
+// The deck for `netlist` (built into `circuit`, whose mirrors are `mirrors`).
+ReviewDeck write_review_deck(const netlist::FlatNetlist& netlist, const Circuit& circuit,
                              const std::vector<Mirror>& mirrors, const DeckOptions& options);
+
+// Writes the deck and its copies; throws InputError "prepare.cannot-write".
+void save_review_deck(const ReviewDeck& deck);
+
+// Adds the probes the deck adds to the netlist to `circuit`, as the devices they are (the
+// current source; or the voltage source and its coupling capacitor), so that the review of
+// the designer's netlist sees the circuit ngspice simulated.
+void add_deck_probes(Circuit& circuit, const ReviewDeck& deck);
 
 }  // namespace mirrorcheck

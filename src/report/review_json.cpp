@@ -213,7 +213,11 @@ nlohmann::json review_to_json(const ReviewTree& t) {
     for (const SolveNote& n : t.solve_notes) solve_notes.push_back({{"note", n.text}, {"devices", n.devices}});
     return {{"schema", "mirrorcheck-report/1"},
             {"tool", {{"name", t.tool.name}, {"version", t.tool.version}, {"revision", text_or_null(t.tool.revision)}}},
-            {"inputs", {{"netlist", t.inputs.netlist}, {"op", t.inputs.op_source}, {"simulation", t.inputs.simulation_files}}},
+            {"inputs",
+             {{"netlist", t.inputs.netlist},
+              {"op", t.inputs.op_source},
+              {"simulation", t.inputs.simulation_files},
+              {"left_out", t.inputs.left_out}}},
             {"settings", settings_json(t.settings)},
             {"assumptions", t.assumptions},
             {"notes", t.notes},

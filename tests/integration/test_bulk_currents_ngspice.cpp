@@ -18,7 +18,7 @@
 
 #include <doctest/doctest.h>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/analyse/bulk_currents.hpp"
 #include "src/model/op_point_build.hpp"
@@ -95,7 +95,7 @@ Point measure(const Bench& b, double vgs) {
     raw::RawFile file = raw::read_raw(run.file("run.raw"));
     REQUIRE(file.plots.size() == 7);
     Point p;
-    p.circuit = netlist::read_netlist(run.file("deck.cir"));
+    p.circuit = read_circuit(run.file("deck.cir"));
     OpPoint op = build_op_point(p.circuit, file, file.plots[0]);
     REQUIRE(op.device(b.name));
     p.op = *op.device(b.name);

@@ -11,7 +11,7 @@
 
 #include <doctest/doctest.h>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/model/op_point_build.hpp"
 #include "support/ngspice_run.hpp"
@@ -86,7 +86,7 @@ TEST_CASE("the vbs derived from a corpus raw file equals ngspice's @m[vbs] for t
             MESSAGE("skipped: no " << dir.string());
             continue;
         }
-        Circuit corpus_circuit = netlist::read_netlist(dir / c.deck);
+        Circuit corpus_circuit = read_circuit(dir / c.deck);
         raw::RawFile corpus_raw = raw::read_raw(dir / c.raw);
         OpPoint derived = build_op_point(corpus_circuit, corpus_raw, corpus_raw.plots.at(0));
 

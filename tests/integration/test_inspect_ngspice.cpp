@@ -13,7 +13,7 @@
 
 #include <doctest/doctest.h>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/analyse/inspect.hpp"
 #include "src/model/op_point_build.hpp"
@@ -62,7 +62,7 @@ struct Inspected {
             REQUIRE(at != std::string::npos);
             text.replace(at, from.size(), to);
         }
-        const Circuit plain = netlist::read_netlist(deck_path(deck));
+        const Circuit plain = read_circuit(deck_path(deck));
         // gmin (1e-12 S by default) sits across the output device's drain (collector) junction
         // in `.tf`, which is a 1e-12·Rout error: 20 % at the regulated cascode's 2e11 Ohm.
         text = text.substr(0, text.find(".control")) + ".control\n" + save_line(plain) +
@@ -70,7 +70,7 @@ struct Inspected {
                "\nwrite run.raw\nquit 0\n.endc\n.end\n";
         run = test::run_ngspice(text, "mc-inspect");
         REQUIRE_MESSAGE(run.status == 0, run.output);
-        circuit = netlist::read_netlist(run.file("deck.cir"));
+        circuit = read_circuit(run.file("deck.cir"));
         file = raw::read_raw(run.file("run.raw"));
         REQUIRE(file.plots.size() == 2);
         op = build_op_point(circuit, file, file.plots[0]);
@@ -299,7 +299,7 @@ TEST_CASE("worked example, from memory: Gray, Hurst, Lewis, Meyer, Widlar curren
     const double r2 = vt / iout * std::log(iin / iout);
     CHECK(r2 == doctest::Approx(11.9e3).epsilon(0.01));
     // tests/data/inspect/widlar_worked_example.cir holds these values.
-    const Circuit c = netlist::read_netlist(deck_path("../inspect/widlar_worked_example"));
+    const Circuit c = read_circuit(deck_path("../inspect/widlar_worked_example"));
     CHECK(*c.find_device("r2")->value == doctest::Approx(r2).epsilon(1e-4));
     Inspected t("../inspect/widlar_worked_example", "vout");
     // Iout within 3 % of the design's 10 uA: the hand equation leaves out base currents and

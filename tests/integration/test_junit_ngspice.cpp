@@ -15,7 +15,7 @@
 #include <doctest/doctest.h>
 #include <nlohmann/json.hpp>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "parsers/waivers/waivers.hpp"
 #include "src/analyse/build_review_tree.hpp"
@@ -100,7 +100,7 @@ struct Bench {
 
     Bench() : run(test::run_ngspice(deck(), "mc-junit")) {
         REQUIRE_MESSAGE(run.status == 0, run.output);
-        circuit = netlist::read_netlist(run.file("deck.cir"));
+        circuit = read_circuit(run.file("deck.cir"));
         raw::RawFile file = raw::read_raw(run.file("op.raw"));
         REQUIRE(!file.plots.empty());
         op = build_op_point(circuit, file, file.plots[0]);

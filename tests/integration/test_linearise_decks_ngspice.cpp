@@ -34,7 +34,7 @@
 
 #include <doctest/doctest.h>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/analyse/linearise.hpp"
 #include "src/model/op_point_build.hpp"
@@ -121,7 +121,7 @@ Deck simulate(const std::string& body, const std::vector<Probe>& probes, const s
     REQUIRE(file.plots.size() == 1 + 2 * probes.size());
     const raw::Plot& op_plot = file.plots[0];
     REQUIRE(op_plot.kind() == "op");
-    Deck deck{netlist::read_netlist(run.file("deck.cir")), {}, {}};
+    Deck deck{read_circuit(run.file("deck.cir")), {}, {}};
     deck.op = build_op_point(deck.circuit, file, op_plot);
     for (std::size_t k = 0; k < probes.size(); ++k) {
         const std::string& source = probes[k].source;

@@ -15,7 +15,7 @@
 
 #include <doctest/doctest.h>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/analyse/linearise.hpp"
 #include "src/model/op_point_build.hpp"
@@ -49,7 +49,7 @@ Compared compare(const std::string& circuit, const std::vector<std::string>& mos
     auto z = file.plots[1].find("vout#input_impedance");
     REQUIRE(z);
 
-    Circuit c = netlist::read_netlist(run.file("deck.cir"));
+    Circuit c = read_circuit(run.file("deck.cir"));
     OpPoint op = build_op_point(c, file, file.plots[0]);
     auto r = compute_linearised_impedances(c, op, {node});
     REQUIRE(r.size() == 1);
@@ -168,7 +168,7 @@ Fallback fallback(const std::string& circuit, const std::string& saves, const st
                                  "mc-fallback");
     REQUIRE_MESSAGE(run.status == 0, run.output);
     raw::RawFile file = raw::read_raw(run.file("run.raw"));
-    Circuit c = netlist::read_netlist(run.file("deck.cir"));
+    Circuit c = read_circuit(run.file("deck.cir"));
     OpPoint op = build_op_point(c, file, file.plots[0]);
     LineariseTarget target{"out", {}};
     for (const auto& name : own) target.own_devices.push_back(device_index(c, name));

@@ -12,7 +12,8 @@
 #include <string>
 #include <vector>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
+#include "support/corpus.hpp"
 #include "support/ngspice_run.hpp"
 #include "test_netlist_support.hpp"
 
@@ -22,13 +23,8 @@ using namespace mirrorcheck::test::netlist;
 
 namespace {
 
-fs::path corpus_dir() { return fs::path(MIRRORCHECK_SOURCE_DIR) / ".." / "shared" / "corpus"; }
-
-bool corpus_present() {
-    if (fs::is_directory(corpus_dir())) return true;
-    MESSAGE("skipped: no corpus at " << corpus_dir().string());
-    return false;
-}
+using mirrorcheck::test::corpus_dir;
+using mirrorcheck::test::corpus_present;
 
 std::vector<fs::path> corpus_decks() {
     std::vector<fs::path> decks;
@@ -80,7 +76,7 @@ std::string raw_device(const std::string& v) {
 }
 
 void check_against_expected(const fs::path& deck, const std::string& stem) {
-    Circuit c = mirrorcheck::netlist::read_netlist(deck);
+    Circuit c = mirrorcheck::read_circuit(deck);
     fs::path expected = deck.parent_path() / "expected";
     std::string log = mirrorcheck::test::read_text(expected / (stem + ".log"));
 
@@ -143,7 +139,7 @@ std::size_t check_against_live_listing(const fs::path& folder, const std::string
     std::string deck = mirrorcheck::test::read_text(dir / deck_name);
     deck = deck.substr(0, std::min(deck.find(".control"), deck.find(".end\n")));
     mirrorcheck::test::write_text(dir / deck_name, deck);
-    Circuit c = mirrorcheck::netlist::read_netlist(dir / deck_name);
+    Circuit c = mirrorcheck::read_circuit(dir / deck_name);
     std::string showmods;
     for (const auto* d : binned_devices(c)) showmods += "showmod " + d->name + " : lmin lmax wmin wmax\n";
     mirrorcheck::test::write_text(dir / deck_name,
@@ -178,7 +174,7 @@ TEST_CASE("corpus: every deck is read, or refused as unsupported") {
     for (const fs::path& deck : corpus_decks()) {
         CAPTURE(deck.string());
         try {
-            Circuit c = mirrorcheck::netlist::read_netlist(deck);
+            Circuit c = mirrorcheck::read_circuit(deck);
             CHECK_MESSAGE(unsupported.count(deck.filename().string()) == 0, "now supported: " << deck.string());
             ++read;
         } catch (const mirrorcheck::InputError& e) {

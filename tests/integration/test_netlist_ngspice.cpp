@@ -3,10 +3,13 @@
 // and `show all` (device -> model, bins included; m) must agree exactly with our Circuit.
 #include <doctest/doctest.h>
 
+#include <filesystem>
 #include <string>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
+#include "support/corpus.hpp"
 #include "support/ngspice_run.hpp"
+#include "support/print_output.hpp"
 #include "test_netlist_support.hpp"
 
 using mirrorcheck::Circuit;
@@ -27,7 +30,7 @@ Compared compare(const std::string& deck, bool with_show = true) {
     Compared c;
     c.run = mirrorcheck::test::run_ngspice(deck + control_block, "mirrorcheck-netlist-ngspice");
     REQUIRE_MESSAGE(c.run.status == 0, c.run.output);
-    c.circuit = mirrorcheck::netlist::read_netlist(c.run.file("deck.cir"));
+    c.circuit = mirrorcheck::read_circuit(c.run.file("deck.cir"));
     check_against_listing(c.circuit, listed_elements(c.run.output, c.circuit.title));
     if (with_show) CHECK(check_against_show(c.circuit, c.run.output) > 0);
     return c;
@@ -105,7 +108,7 @@ TEST_CASE("ngspice: includes and library sections") {
     std::string cmd = "cd '" + run.dir.string() + "' && ngspice -b deck.cir > ngspice.log 2>&1";
     REQUIRE(std::system(cmd.c_str()) == 0);
     run.output = mirrorcheck::test::read_text(run.dir / "ngspice.log");
-    Circuit c = mirrorcheck::netlist::read_netlist(run.dir / "deck.cir");
+    Circuit c = mirrorcheck::read_circuit(run.dir / "deck.cir");
     check_against_listing(c, listed_elements(run.output, c.title));
     CHECK(check_against_show(c, run.output) > 0);
 }
@@ -139,4 +142,132 @@ TEST_CASE("ngspice: the golden cascode mirror deck") {
     std::string deck = mirrorcheck::test::read_text(std::filesystem::path(MIRRORCHECK_TEST_DATA) / "netlist" /
                                                     "cascode_mirror.cir");
     compare(deck);
+}
+
+namespace {
+
+namespace fs = std::filesystem;
+
+// Runs `deck` (its last line before the control block) in `dir` with `op` and a `print` of
+// every resistor's value and of `more` vectors; returns what ngspice printed.
+mirrorcheck::test::PrintedVectors printed(const fs::path& dir, const std::string& deck, const Circuit& c,
+                                          const std::vector<std::string>& more = {}) {
+    std::string control = ".control\nop\n";
+    for (const Device& d : c.devices())
+        if (d.kind == mirrorcheck::DeviceKind::resistor) control += "print @" + d.name + "[resistance]\n";
+    for (const auto& v : more) control += "print " + v + "\n";
+    mirrorcheck::test::write_text(dir / "printed.cir", deck + control + "quit 0\n.endc\n");
+    mirrorcheck::test::write_text(dir / ".spiceinit", "set num_threads=1\n");
+    const std::string cmd = "cd '" + dir.string() + "' && ngspice -b printed.cir > printed.log 2>&1";
+    const int status = std::system(cmd.c_str());
+    const std::string log = mirrorcheck::test::read_text(dir / "printed.log");
+    REQUIRE_MESSAGE(status == 0, log);
+    return mirrorcheck::test::parse_print_output(log);
+}
+
+// Every resistor's value equals ngspice's; returns how many were compared.
+std::size_t check_resistors(const Circuit& c, const mirrorcheck::test::PrintedVectors& values) {
+    std::size_t compared = 0;
+    for (const Device& d : c.devices()) {
+        if (d.kind != mirrorcheck::DeviceKind::resistor) continue;
+        auto it = values.find("@" + d.name + "[resistance]");
+        REQUIRE_MESSAGE(it != values.end(), "ngspice printed no value for " << d.name);
+        CHECK_MESSAGE(*d.value == doctest::Approx(it->second.at(0).real()), d.name);
+        ++compared;
+    }
+    return compared;
+}
+
+using mirrorcheck::test::corpus_dir;
+
+}  // namespace
+
+TEST_CASE("ngspice: an X line's expressions are evaluated in the instance's own scope") {
+    const std::string deck =
+        "instance scope\n.param g=100 p=7 k=50\n"
+        ".subckt s a b p=1 q=1 r=5\n.param t=4\n.param u={t*10}\nR1 a b {p}\nR2 a b {q}\nR3 a b {r}\nR4 a b {u}\n.ends\n"
+        ".subckt s2 a b q=1 p=1\nR1 a b {p}\nR2 a b {q}\n.ends\n"
+        ".subckt outer a b k=3 p=9\nXI a b s q='k*2' r='p'\n.ends\n"
+        "V1 1 0 1\n"
+        "XA 1 0 s p=2 q='p*3'\nXB 1 0 s q='p*3' p=2\nXC 1 0 s q='r*3'\nXD 1 0 s q='g*3'\nXE 1 0 s q='p*3'\n"
+        "XF 1 0 s q='t*2' t=6\nXG 1 0 s p='p*2'\nXH 1 0 s2 q='p*3' p=2\nXO 1 0 outer\nXZ 1 0 s zz=3\n"
+        "XY 1 0 s u='r+g' r=2\n";
+    mirrorcheck::test::NgspiceRun run;
+    run.dir = mirrorcheck::test::make_temp_dir("mirrorcheck-netlist-ngspice");
+    mirrorcheck::test::write_text(run.dir / "deck.cir", deck);
+    Circuit c = mirrorcheck::read_circuit(run.dir / "deck.cir");
+    CHECK(check_resistors(c, printed(run.dir, deck, c)) == 4 * 10 + 2);
+}
+
+TEST_CASE("ngspice: PDK instance lines as schematic tools write them (sky130 nfet_01v8, gf180 nmos_3p3)") {
+    if (!mirrorcheck::test::corpus_present()) return;
+    mirrorcheck::test::NgspiceRun run;
+    run.dir = mirrorcheck::test::make_temp_dir("mirrorcheck-netlist-ngspice");
+    fs::create_directory_symlink(fs::canonical(corpus_dir() / "sky130"), run.dir / "sky130");
+    fs::create_directory_symlink(fs::canonical(corpus_dir() / "gf180mcu"), run.dir / "gf180");
+    const std::string sky =
+        ".include \"sky130/models/parameters/lod.spice\"\n"
+        ".include \"sky130/cells/nfet_01v8/sky130_fd_pr__nfet_01v8__tt.corner.spice\"\n"
+        ".include \"sky130/cells/nfet_01v8/sky130_fd_pr__nfet_01v8__mismatch.corner.spice\"\n";
+    const std::string line =
+        " d g 0 0 sky130_fd_pr__nfet_01v8 L=1 W=10 nf=2 ad='int((nf+1)/2) * W/nf * 0.29' "
+        "as='int((nf+2)/2) * W/nf * 0.29' pd='2*int((nf+1)/2) * (W/nf + 0.29)' ps='2*int((nf+2)/2) * (W/nf + 0.29)' "
+        "nrd='0.29 / W' nrs='0.29 / W' sa=0 sb=0 sd=0 mult=1 m=";
+    const std::string sky_deck = "sky130 instance lines\n.option scale=1.0u\n" + sky + ".param W=3 nf=7\n"
+                                 "XM1" + line + "1\nXM2" + line + "2\nXM3 d g 0 0 sky130_fd_pr__nfet_01v8 W=5 L=1 mult=2\n"
+                                 "vd d 0 1\nvg g 0 0.9\n";
+    const std::string gf_deck = "gf180 instance lines\n.include \"gf180/design.ngspice\"\n"
+                                ".lib \"gf180/sm141064.ngspice\" typical\n.param sw_stat_mismatch=0\n"
+                                "XG1 d g 0 0 nmos_3p3 w=10u l=1u nf=2 m=2 ad='w/nf*0.5u' pd='2*(w/nf+0.5u)'\n"
+                                "vd d 0 1\nvg g 0 0.9\n";
+    const std::vector<std::string> keys = {"w", "l", "nf", "m", "ad", "as", "pd", "ps", "nrd", "nrs"};
+    Circuit both;
+    for (const std::string& deck : {sky_deck, gf_deck}) {
+        mirrorcheck::test::write_text(run.dir / "deck.cir", deck);
+        Circuit c = mirrorcheck::read_circuit(run.dir / "deck.cir");
+        std::vector<std::string> vectors;
+        std::vector<const Device*> fets;
+        for (const Device& d : c.devices())
+            if (d.kind == mirrorcheck::DeviceKind::mosfet) fets.push_back(&d);
+        REQUIRE(fets.size() == (deck.rfind("sky130", 0) == 0 ? 3u : 1u));
+        for (const Device* d : fets)
+            for (const auto& k : keys) vectors.push_back("@" + d->name + "[" + k + "]");
+        auto values = printed(run.dir, deck, c, vectors);
+        for (const Device* d : fets)
+            for (const auto& k : keys) {
+                CAPTURE(d->name);
+                CAPTURE(k);
+                auto it = values.find("@" + d->name + "[" + k + "]");
+                REQUIRE(it != values.end());
+                // after `op` ngspice shows 1 for an m nobody gave, 0 for the others
+                CHECK(d->parameter(k).value_or(k == "m" ? 1 : 0) ==
+                      doctest::Approx(it->second.at(0).real()).epsilon(1e-12));
+            }
+        for (const Device& d : c.devices()) both.add_device(d);
+    }
+    Circuit& c = both;
+    CHECK(c.find_device("m.xm2.msky130_fd_pr__nfet_01v8")->parameter("m") == 2);
+    CHECK(c.find_device("m.xg1.m0")->parameter("m").value_or(1) == 1);  // GF180 ignores m on its X line
+}
+
+TEST_CASE("ngspice: paths resolve as ngspice run in the deck's folder finds them") {
+    mirrorcheck::test::NgspiceRun run;
+    run.dir = mirrorcheck::test::make_temp_dir("mirrorcheck-netlist-ngspice");
+    auto write = [&](const std::string& name, const std::string& text) {
+        fs::create_directories((run.dir / name).parent_path());
+        mirrorcheck::test::write_text(run.dir / name, text);
+    };
+    write("sub/a.inc", ".include b.inc\n.include c.inc\n.lib m.lib tt\n");
+    write("sub/b.inc", "R1 1 0 1\n");
+    write("b.inc", "R1 1 0 2\n");  // the deck's folder first
+    write("sub/c.inc", "R2 1 0 3\n");
+    write("m.lib", ".lib tt\nR3 1 0 4\n.endl\n");
+    write("sub/m.lib", ".lib tt\nR3 1 0 5\n.endl\n");  // not beside the including file
+    write("lib/self.lib", ".lib top\n.lib self.lib inner\n.endl\n.lib inner\nR4 1 0 6\n.endl\n");
+    const std::string deck = "paths\n.include sub/a.inc\n.lib lib/self.lib top\nV1 1 0 1\n.end\nR5 1 0 7\n";
+    write("deck.cir", deck);
+    Circuit c = mirrorcheck::read_circuit(run.dir / "deck.cir");
+    CHECK(check_resistors(c, printed(run.dir, deck, c)) == 5);  // R5 after `.end`: ngspice reads on
+    CHECK(*c.find_device("r1")->value == 2);
+    CHECK(*c.find_device("r3")->value == 4);
 }

@@ -11,7 +11,7 @@
 #include <doctest/doctest.h>
 
 #include "parsers/listing/listing.hpp"
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/model/op_point_build.hpp"
 #include "support/ngspice_run.hpp"
@@ -109,7 +109,7 @@ struct Fixture {
                                     "\nop\nwrite op.raw\nshow all > show.txt\nquit 0\n.endc\n.end\n",
                                 "mc-op");
         REQUIRE_MESSAGE(run.status == 0, run.output);
-        circuit = netlist::read_netlist(run.file("deck.cir"));
+        circuit = read_circuit(run.file("deck.cir"));
         raw = raw::read_raw(run.file("op.raw"));
         REQUIRE(raw.plots.size() == 1);
         from_raw = build_op_point(circuit, raw, raw.plots[0]);
@@ -296,7 +296,7 @@ ParasiticRuns parasitic_runs() {
                                          "op\nwrite op.raw\nquit 0\n.endc\n.end\n",
                                      "mc-op-derive");
         REQUIRE_MESSAGE(run.status == 0, run.output);
-        r.circuit = netlist::read_netlist(run.file("deck.cir"));
+        r.circuit = read_circuit(run.file("deck.cir"));
         raw::RawFile file = raw::read_raw(run.file("op.raw"));
         *ops[with ? 1 : 0] = build_op_point(r.circuit, file, file.plots[0]);
     }
@@ -337,7 +337,7 @@ TEST_CASE("a listing's node voltages come from its terminal voltages, through tr
                                      parasitic_saves(true) + "op\nwrite op.raw\nshow all > show.txt\nquit 0\n.endc\n.end\n",
                                  "mc-op-listing");
     REQUIRE_MESSAGE(run.status == 0, run.output);
-    Circuit c = netlist::read_netlist(run.file("deck.cir"));
+    Circuit c = read_circuit(run.file("deck.cir"));
     raw::RawFile file = raw::read_raw(run.file("op.raw"));
     OpPoint from_raw = build_op_point(c, file, file.plots[0]);
     OpPoint from_listing = build_op_point(c, listing::read_listing(run.file("show.txt")));

@@ -11,7 +11,7 @@
 #include <string>
 #include <vector>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "src/recognise/find_mirrors.hpp"
 #include "support/ngspice_run.hpp"
 
@@ -84,7 +84,7 @@ TEST_CASE("every recognition deck converges in ngspice") {
 
 TEST_CASE("ngspice's currents in each recognised mirror follow its design ratio") {
     for (const auto& path : all_decks()) {
-        Circuit c = mirrorcheck::netlist::read_netlist(path);
+        Circuit c = mirrorcheck::read_circuit(path);
         auto mirrors = mirrorcheck::find_mirrors(c);
         if (mirrors.empty()) continue;
         CAPTURE(path.filename().string());

@@ -9,7 +9,7 @@
 #include <doctest/doctest.h>
 
 #include "parsers/common/input_error.hpp"
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/analyse/simulated_impedance.hpp"
 #include "src/model/simulation_plots_build.hpp"
@@ -34,7 +34,7 @@ Simulated simulate(const std::string& probe, const std::string& analyses) {
         probe + ".control\nset appendwrite\n" + analyses + "quit 0\n.endc\n.end\n";
     Simulated s{test::run_ngspice(deck, "mc-simulated"), {}, {}};
     REQUIRE_MESSAGE(s.run.status == 0, s.run.output);
-    s.circuit = netlist::read_netlist(s.run.file("deck.cir"));
+    s.circuit = read_circuit(s.run.file("deck.cir"));
     s.plots = simulation_plots_from_raw(raw::read_raw(s.run.file("run.raw")));
     return s;
 }
@@ -106,7 +106,7 @@ TEST_CASE("one AC run per probe in one raw file: each output is read from the ru
         "tf v(out) iin\nwrite run.raw\ntf v(out2) iin2\nwrite run.raw\nquit 0\n.endc\n.end\n";
     auto run = test::run_ngspice(deck, "mc-simulated");
     REQUIRE_MESSAGE(run.status == 0, run.output);
-    Circuit c = netlist::read_netlist(run.file("deck.cir"));
+    Circuit c = read_circuit(run.file("deck.cir"));
     auto plots = simulation_plots_from_raw(raw::read_raw(run.file("run.raw")));
     REQUIRE(plots.size() == 4);
     auto r = find_simulated_impedances(c, plots, {"out", "out2"}, {});

@@ -33,7 +33,7 @@
 #include <doctest/doctest.h>
 
 #include "parsers/listing/listing.hpp"
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/analyse/linearise.hpp"
 #include "src/model/op_point_build.hpp"
@@ -50,7 +50,7 @@ constexpr double corner_tolerance = 2e-2;     // issue #5: corner within 2 %
 std::string saves_for(const std::string& circuit_text) {
     auto dir = test::make_temp_dir("mc-spectrum-names");
     test::write_text(dir / "pre.cir", "* names\n" + circuit_text + ".end\n");
-    Circuit c = netlist::read_netlist(dir / "pre.cir");
+    Circuit c = read_circuit(dir / "pre.cir");
     std::filesystem::remove_all(dir);
     std::string saves;
     for (const Device& d : c.devices()) {
@@ -84,7 +84,7 @@ AcDeck simulate(const std::string& circuit_text) {
     auto i = ac.find("i(vout)");
     REQUIRE(f);
     REQUIRE(i);
-    AcDeck deck{netlist::read_netlist(run.file("deck.cir")), {}, {}, {}, {}};
+    AcDeck deck{read_circuit(run.file("deck.cir")), {}, {}, {}, {}};
     deck.op = build_op_point(deck.circuit, file, file.plots[0]);
     deck.listing_op = build_op_point(deck.circuit, listing::read_listing(run.file("show.txt")));
     for (std::size_t k = 0; k < ac.point_count; ++k) {

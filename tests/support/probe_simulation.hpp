@@ -15,7 +15,7 @@
 
 #include <doctest/doctest.h>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/model/op_point_build.hpp"
 #include "support/ngspice_run.hpp"
@@ -57,7 +57,7 @@ inline ProbeSimulation simulate_probes(const std::string& deck, const std::vecto
     // The Circuit first, to know what to save.
     const std::filesystem::path dir = make_temp_dir("mc-probe-netlist");
     write_text(dir / "netlist.cir", deck + ".end\n");
-    Circuit first = netlist::read_netlist(dir / "netlist.cir");
+    Circuit first = read_circuit(dir / "netlist.cir");
     std::filesystem::remove_all(dir);
 
     std::string control = ".control\n" + save_everything(first, extra_saves) + "op\nwrite run.raw\nset appendwrite\n";
@@ -68,7 +68,7 @@ inline ProbeSimulation simulate_probes(const std::string& deck, const std::vecto
     }
     sim.run = run_ngspice(deck + control + "quit 0\n.endc\n.end\n", "mc-probe");
     REQUIRE_MESSAGE(sim.run.status == 0, sim.run.output);
-    sim.circuit = netlist::read_netlist(sim.run.file("deck.cir"));
+    sim.circuit = read_circuit(sim.run.file("deck.cir"));
     sim.raw = raw::read_raw(sim.run.file("run.raw"));
     REQUIRE(sim.raw.plots.size() == 1 + 2 * probes.size());
     const raw::Plot& op_plot = sim.raw.plots[0];

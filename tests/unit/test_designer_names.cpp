@@ -6,7 +6,7 @@
 
 #include <doctest/doctest.h>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "src/analyse/designer_names.hpp"
 #include "src/recognise/find_mirrors.hpp"
 
@@ -19,7 +19,7 @@ std::string fixture(const std::string& name) { return std::string(MIRRORCHECK_TE
 }  // namespace
 
 TEST_CASE("a wrapped transistor is named by its X instance, inside a designer's subcircuit too") {
-    Circuit c = netlist::read_netlist(fixture("pdk_wrapped.cir"));
+    Circuit c = read_circuit(fixture("pdk_wrapped.cir"));
     const auto mirrors = find_mirrors(c);
     const DesignerNames names = find_designer_names(c, mirrors);
     REQUIRE(c.find_device("m.xbias.xm4.m0"));
@@ -32,7 +32,7 @@ TEST_CASE("a wrapped transistor is named by its X instance, inside a designer's 
 }
 
 TEST_CASE("a transistor among several in a subcircuit keeps its instance path") {
-    Circuit c = netlist::read_netlist(fixture("subckt_twice.cir"));
+    Circuit c = read_circuit(fixture("subckt_twice.cir"));
     const DesignerNames names = find_designer_names(c, find_mirrors(c));
     CHECK(designer_name(names, "m.x1.m2") == "x1.m2");
     CHECK(designer_name(names, "m.x2.m1") == "x2.m1");

@@ -14,7 +14,7 @@
 
 #include <doctest/doctest.h>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/analyse/pipeline.hpp"
 #include "src/model/op_point_build.hpp"
@@ -57,7 +57,7 @@ std::set<std::string> required_placeholders(std::string_view text) {
 
 ReviewTree sample_review() {
     const fs::path dir = source_dir / "samples" / "tamarack";
-    Circuit circuit = netlist::read_netlist(dir / "bias.cir");
+    Circuit circuit = read_circuit(dir / "bias.cir");
     raw::RawFile file = raw::read_raw(dir / "bias_op.raw");
     const raw::Plot* op_plot = nullptr;
     for (const auto& p : file.plots)

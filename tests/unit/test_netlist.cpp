@@ -8,6 +8,7 @@
 #include <string>
 
 #include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "src/report/circuit_dump.hpp"
 #include "support/ngspice_run.hpp"
 
@@ -31,6 +32,9 @@ struct Decks {
         return path;
     }
     Circuit read(const std::string& text, const std::string& name = "deck.cir") const {
+        return mirrorcheck::read_circuit(write(name, text));
+    }
+    mirrorcheck::netlist::FlatNetlist flat(const std::string& text, const std::string& name = "deck.cir") const {
         return mirrorcheck::netlist::read_netlist(write(name, text));
     }
 };
@@ -362,6 +366,141 @@ TEST_CASE(".include and .lib sections, relative to the including file") {
     CHECK(device(c, "m.x1.m1").source.file == (decks.dir / "cells/inv.sp").string());
 }
 
+TEST_CASE("paths resolve as ngspice run in the deck's folder: ./ first, a .lib inside an include from the deck's folder") {
+    Decks decks;
+    // sub/a.inc includes b.inc: the deck's folder has one too, and ngspice takes it first.
+    decks.write("sub/a.inc", ".include b.inc\n.include c.inc\n.lib m.lib tt\n");
+    decks.write("sub/b.inc", "R1 1 0 1\n");
+    decks.write("b.inc", "R1 1 0 2\n");
+    decks.write("sub/c.inc", "R2 1 0 3\n");
+    // a .lib inside an included file: from the deck's folder, not from the include's
+    decks.write("m.lib", ".lib tt\nR3 1 0 4\n.endl\n");
+    decks.write("sub/m.lib", ".lib tt\nR3 1 0 5\n.endl\n");
+    // a library naming itself resolves beside itself
+    decks.write("lib/self.lib", ".lib top\n.lib self.lib inner\n.endl\n.lib inner\nR4 1 0 6\n.endl\n");
+    auto flat = decks.flat("paths\n.include sub/a.inc\n.lib lib/self.lib top\nV1 1 0 1\n");
+    Circuit c = mirrorcheck::build_circuit(flat);
+    CHECK(*device(c, "r1").value == 2);
+    CHECK(*device(c, "r2").value == 3);
+    CHECK(*device(c, "r3").value == 4);
+    CHECK(*device(c, "r4").value == 6);
+    namespace nl = mirrorcheck::netlist;
+    REQUIRE(flat.references.size() == 6);
+    auto ref = [&](std::size_t k) { return flat.references[k]; };
+    CHECK(ref(0).written == "sub/a.inc");
+    CHECK(ref(0).resolved == decks.dir / "sub/a.inc");
+    CHECK(ref(0).where.line == 2);
+    CHECK(ref(0).column == 10);
+    CHECK(ref(0).length == 9);
+    CHECK(ref(1).resolved == decks.dir / "b.inc");
+    CHECK(ref(1).via_working_folder);       // found in the deck's folder, not beside sub/a.inc
+    CHECK(ref(2).resolved == decks.dir / "sub/c.inc");
+    CHECK_FALSE(ref(2).via_working_folder);  // beside its includer
+    CHECK(ref(3).resolved == decks.dir / "m.lib");
+    CHECK(ref(3).library);
+    CHECK(ref(3).via_working_folder);
+    CHECK(ref(4).resolved == decks.dir / "lib/self.lib");
+    CHECK(ref(5).resolved == decks.dir / "lib/self.lib");
+    CHECK_FALSE(ref(5).via_working_folder);  // inside a library: beside the library
+    REQUIRE(flat.files.size() == 6);
+    CHECK(flat.files[0].role == nl::ReadFile::Role::top);
+    CHECK(flat.files[1].path == decks.dir / "sub/a.inc");
+    CHECK(flat.files[1].role == nl::ReadFile::Role::included);
+    CHECK(flat.files[4].role == nl::ReadFile::Role::library);
+}
+
+TEST_CASE("statements that describe no circuit are recorded with their lines; .end does not stop the reading") {
+    Decks decks;
+    decks.write("inc.cir", "R9 1 0 1k\n.control\necho inside\n.endc\n.TRAN 1n 10n\n");
+    auto flat = decks.flat(
+        "cards\nV1 1 0 1\n.include inc.cir\n.op\n.Ac dec 10 1 1g\n.tran 1n\n+ 1u\n.save v(1)\n.probe i(v1)\n"
+        ".meas tran t1 find v(1) at=1n\n.four 1k v(1)\n.print dc v(1)\n.temp 50\n.options gmin=1e-12\n"
+        ".control\nop\n* a comment\nquit 0\n.endc\n.end\nR2 1 0 2k\n");
+    using Kind = mirrorcheck::netlist::Card::Kind;
+    std::vector<std::string> seen;
+    for (const auto& card : flat.cards) {
+        std::string kind = card.kind == Kind::control_block ? "control"
+                           : card.kind == Kind::analysis    ? "analysis"
+                           : card.kind == Kind::output      ? "output"
+                                                            : "end";
+        seen.push_back(std::filesystem::path(card.first.file).filename().string() + ":" + std::to_string(card.first.line) +
+                       "-" + std::to_string(card.last_line) + " " + kind + " " + card.keyword);
+    }
+    CHECK(seen == std::vector<std::string>{"inc.cir:2-4 control .control", "inc.cir:5-5 analysis .tran",
+                                           "deck.cir:4-4 analysis .op", "deck.cir:5-5 analysis .ac",
+                                           "deck.cir:6-7 analysis .tran", "deck.cir:8-8 output .save",
+                                           "deck.cir:9-9 output .probe", "deck.cir:10-10 output .meas",
+                                           "deck.cir:11-11 output .four", "deck.cir:12-12 output .print",
+                                           "deck.cir:15-19 control .control", "deck.cir:20-20 end .end"});
+    CHECK(flat.cards[4].text == ".tran 1n  1u");  // the continuation joined to its line
+    // ngspice 39 reads on after `.end` (checked: a resistor after it carries current)
+    Circuit c = mirrorcheck::build_circuit(flat);
+    CHECK(c.find_device("r2") != nullptr);
+    CHECK(c.find_device("r9") != nullptr);
+    CHECK(c.control_blocks.size() == 2);
+}
+
+TEST_CASE("an X line's expressions see its own parameters, the subcircuit's defaults, then the caller's") {
+    Decks decks;
+    Circuit c = decks.read(
+        "instance scope\n.param g=100 p=7 k=50\n"
+        ".subckt s a b p=1 q=1 r=5\n.param t=4\nR1 a b {p}\nR2 a b {q}\nR3 a b {r}\n.ends\n"
+        ".subckt s2 a b q=1 p=1\nR1 a b {p}\nR2 a b {q}\n.ends\n"
+        ".subckt outer a b k=3 p=9\nXI a b s q='k*2' r='p'\n.ends\n"
+        "XA 1 0 s p=2 q='p*3'\nXB 1 0 s q='p*3' p=2\nXC 1 0 s q='r*3'\nXD 1 0 s q='g*3'\nXE 1 0 s q='p*3'\n"
+        "XF 1 0 s q='t*2'\nXG 1 0 s p='p*2'\nXH 1 0 s2 q='p*3' p=2\nXO 1 0 outer\nXZ 1 0 s zz=3\n");
+    auto r = [&](const char* name) { return *device(c, name).value; };
+    // the values ngspice 39 prints for the same deck (test_netlist_ngspice checks them live)
+    CHECK(r("r.xa.r2") == 6);
+    CHECK(r("r.xb.r2") == 6);   // the line's numbers are assigned first, whatever their order
+    CHECK(r("r.xc.r2") == 15);  // a default not on the line
+    CHECK(r("r.xd.r2") == 300); // the caller's .param
+    CHECK(r("r.xe.r2") == 3);   // the subcircuit's own p shadows the caller's
+    CHECK(r("r.xf.r2") == 8);   // a body .param is a formal parameter too
+    CHECK(r("r.xg.r1") == 14);  // p='p*2' reads the caller's p: the instance's is not yet assigned
+    CHECK(r("r.xh.r2") == 6);
+    CHECK(r("r.xo.xi.r2") == 6);  // the calling instance's k
+    CHECK(r("r.xo.xi.r3") == 1);  // the called subcircuit's own p, not the caller's
+    CHECK(r("r.xz.r1") == 1);     // a name that is no formal parameter is dropped
+}
+
+TEST_CASE("a schematic tool's PDK instance line: W/nf and int((nf+1)/2) from the line itself") {
+    Decks decks;
+    // The shape of sky130's nfet_01v8 wrapper: formal parameters as body .params, one device.
+    Circuit c = decks.read(
+        "pdk instance\n.option scale=1.0u\n.param W=3\n"
+        ".subckt nfet d g s b\n+\n.param l=1 w=1 ad=0 as=0 pd=0 ps=0 nrd=0 nrs=0 sa=0 sb=0 sd=0 mult=1 nf=1.0\n"
+        "mfet d g s b nch l={l} w={w} ad={ad} as={as} pd={pd} ps={ps} nrd={nrd} nrs={nrs} sa={sa} sb={sb} sd={sd} nf={nf}\n"
+        ".model nch nmos level=1\n.ends\n"
+        "XM1 d g 0 0 nfet L=1 W=10 nf=2 ad='int((nf+1)/2) * W/nf * 0.29' as='int((nf+2)/2) * W/nf * 0.29'\n"
+        "+ pd='2*int((nf+1)/2) * (W/nf + 0.29)' ps='2*int((nf+2)/2) * (W/nf + 0.29)' nrd='0.29 / W' nrs='0.29 / W'\n"
+        "+ sa=0 sb=0 sd=0 mult=1 m=2\n");
+    const Device& m = device(c, "m.xm1.mfet");
+    // ngspice 39 on sky130's own wrapper: ad 1.45e-12, as 2.9e-12, pd 1.058e-05, nrd 0.029
+    CHECK(param(m, "w") == doctest::Approx(10e-6));
+    CHECK(param(m, "nf") == 2);
+    CHECK(param(m, "ad") == doctest::Approx(1.45e-12));
+    CHECK(param(m, "as") == doctest::Approx(2.9e-12));
+    CHECK(param(m, "pd") == doctest::Approx(10.58e-6));
+    CHECK(param(m, "ps") == doctest::Approx(21.16e-6));
+    CHECK(param(m, "nrd") == doctest::Approx(0.029));
+    CHECK(param(m, "m") == 2);
+}
+
+TEST_CASE("the reader's result is plain data; the Circuit shares each model among its devices") {
+    Decks decks;
+    auto flat = decks.flat("plain\nM1 d g 0 0 nch w=1u l=1u\nM2 d g 0 0 nch w=2u l=1u\n.model nch nmos level=1\n");
+    REQUIRE(flat.devices.size() == 2);
+    REQUIRE(flat.models.size() == 1);
+    CHECK(flat.devices[0].model == std::optional<std::size_t>(0));
+    CHECK(flat.devices[1].model == std::optional<std::size_t>(0));
+    CHECK(flat.devices[1].kind == mirrorcheck::netlist::ElementKind::mosfet);
+    Circuit c = mirrorcheck::build_circuit(flat);
+    CHECK(device(c, "m1").model == device(c, "m2").model);
+    CHECK(device(c, "m1").model->name == "nch");
+    CHECK(c.find_net("d")->terminals.size() == 2);
+}
+
 TEST_CASE(".control blocks are kept as text and not read as elements") {
     Decks decks;
     Circuit c = decks.read("control\nR1 a 0 1k\n.control\nop\nlet x = 1\nshow all\n.endc\n.end\n");
@@ -443,7 +582,7 @@ TEST_CASE("a subcircuit defined inside another gives its devices two prefixes, a
 // the new output with `MIRRORCHECK_ACCEPT=1 ctest -R test_netlist$`.
 TEST_CASE("the table dump of a small cascode mirror matches its golden file") {
     const std::filesystem::path data = std::filesystem::path(MIRRORCHECK_TEST_DATA) / "netlist";
-    Circuit c = mirrorcheck::netlist::read_netlist(data / "cascode_mirror.cir");
+    Circuit c = mirrorcheck::read_circuit(data / "cascode_mirror.cir");
     std::string table = mirrorcheck::report::write_circuit_table(c);
     for (auto at = table.find(data.string() + "/"); at != std::string::npos; at = table.find(data.string() + "/"))
         table.erase(at, data.string().size() + 1);

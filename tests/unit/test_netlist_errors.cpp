@@ -21,6 +21,7 @@ struct Decks {
     }
     std::filesystem::path write(const std::string& name, const std::string& text) const {
         auto path = dir / name;
+        std::filesystem::create_directories(path.parent_path());
         mirrorcheck::test::write_text(path, text);
         return path;
     }
@@ -62,6 +63,13 @@ const std::vector<Malformed> catalogue = {
      {{"b.inc", ".include b.inc\nR1 a 0 1\n"}}},
     {"missing library section", "t\n.lib 'l.lib' ff\n", "netlist.missing-lib-section", 2, 1, "no `.lib ff`",
      "deck.cir", {{"l.lib", ".lib tt\n.endl\n"}}},
+    {"missing library file", "t\nR1 a 0 1\n.lib \"nolib.lib\" tt\n", "netlist.missing-library", 3, 1,
+     "cannot read the library file"},
+    {"missing include inside an included file", "t\n.include sub/a.inc\n", "netlist.missing-include", 3, 1,
+     "cannot read the included file", "sub/a.inc", {{"sub/a.inc", "* models\n\n.include gone.inc\n"}}},
+    {"a .lib inside an include is not looked for beside the include", "t\n.include sub/b.inc\n",
+     "netlist.missing-library", 1, 1, "m.lib", "sub/b.inc",
+     {{"sub/b.inc", ".lib m.lib tt\n"}, {"sub/m.lib", ".lib tt\n.endl\n"}}},
     {"subcircuit without .ends", "t\n.subckt s a\nR1 a 0 1\n", "netlist.unterminated", 2, 1, "expected `.ends`"},
     {".ends without .subckt", "t\n.ends\n", "netlist.stray-statement", 2, 1, "`.ends` has no matching"},
     {"continuation without a line", "t\n+ R1 a b 1\n", "netlist.stray-continuation", 2, 1, "must follow"},

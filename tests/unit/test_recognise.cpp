@@ -11,7 +11,7 @@
 #include <string>
 #include <vector>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "support/mirror_blocks.hpp"
 #include "src/recognise/find_mirrors.hpp"
 
@@ -23,7 +23,7 @@ using mirrorcheck::find_mirrors;
 namespace {
 
 Circuit read_deck(const std::string& name) {
-    return mirrorcheck::netlist::read_netlist(std::string(MIRRORCHECK_TEST_DATA) + "/recognise/" + name + ".cir");
+    return mirrorcheck::read_circuit(std::string(MIRRORCHECK_TEST_DATA) + "/recognise/" + name + ".cir");
 }
 
 std::vector<std::string> names(const Circuit& c, const std::vector<std::size_t>& devices) {

@@ -9,7 +9,7 @@
 
 #include <doctest/doctest.h>
 
-#include "parsers/netlist/netlist.hpp"
+#include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/analyse/build_review_tree.hpp"
 #include "src/analyse/pipeline.hpp"
@@ -25,7 +25,7 @@ namespace {
 
 ReviewTree sample_review() {
     const fs::path dir = fs::path(MIRRORCHECK_SOURCE_DIR) / "samples" / "tamarack";
-    Circuit circuit = netlist::read_netlist(dir / "bias.cir");
+    Circuit circuit = read_circuit(dir / "bias.cir");
     raw::RawFile file = raw::read_raw(dir / "bias_op.raw");
     OpPoint op = build_op_point(circuit, file, file.plots.front());
     return run_review(circuit, op, simulation_plots_from_raw(file), ReviewSettings{},
@@ -125,7 +125,7 @@ TEST_CASE("a finding about one output of a two-output mirror sits under that out
 
 TEST_CASE("what the op data's reader noted reaches the tree, the table and JSON") {
     const fs::path dir = fs::path(MIRRORCHECK_SOURCE_DIR) / "samples" / "tamarack";
-    Circuit circuit = netlist::read_netlist(dir / "bias.cir");
+    Circuit circuit = read_circuit(dir / "bias.cir");
     raw::RawFile file = raw::read_raw(dir / "bias_op.raw");
     REQUIRE(file.plots.at(1).kind() == "ac");
     OpPoint op = build_op_point(circuit, file, file.plots[1]);  // the op values an AC plot repeats

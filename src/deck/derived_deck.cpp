@@ -1,0 +1,158 @@
+// Derived copies of the user's files (see derived_deck.hpp).
+#include "src/deck/derived_deck.hpp"
+
+#include <fstream>
+#include <map>
+#include <set>
+#include <sstream>
+
+#include <fmt/format.h>
+
+#include "parsers/common/errors.hpp"
+#include "src/deck/deck_errors.hpp"
+
+namespace mirrorcheck {
+namespace {
+
+namespace fs = std::filesystem;
+using netlist::Card;
+using netlist::ReadFile;
+
+fs::path normal(const std::string& file) {
+    std::error_code ec;
+    auto a = fs::absolute(file, ec);
+    return (ec ? fs::path(file) : a).lexically_normal();
+}
+
+bool left_out(const Card& card) {
+    switch (card.kind) {
+        case Card::Kind::control_block:
+        case Card::Kind::analysis: return true;
+        case Card::Kind::output: return card.keyword != ".save";
+        case Card::Kind::end: return false;
+    }
+    return false;
+}
+
+// The file's physical lines, each with its own line break (CR LF kept).
+std::vector<std::string> physical_lines(const fs::path& path) {
+    std::ifstream in(path, std::ios::binary);
+    if (!in) throw errors::cannot_open(path.string(), "it was read a moment ago but cannot be opened again");
+    std::ostringstream s;
+    s << in.rdbuf();
+    const std::string text = s.str();
+    std::vector<std::string> lines;
+    std::size_t pos = 0;
+    while (pos < text.size()) {
+        std::size_t eol = text.find('\n', pos);
+        std::size_t end = eol == std::string::npos ? text.size() : eol + 1;
+        lines.push_back(text.substr(pos, end - pos));
+        pos = end;
+    }
+    if (!lines.empty() && lines.back().back() != '\n') lines.back() += '\n';
+    return lines;
+}
+
+std::string quoted(const fs::path& p) { return "\"" + p.string() + "\""; }
+
+class Deriver {
+public:
+    Deriver(const netlist::FlatNetlist& netlist, const fs::path& folder) : netlist_(netlist), folder_(folder) {}
+
+    DerivedDeck run() {
+        for (const ReadFile& f : netlist_.files) roles_.emplace(f.path, f.role);
+        for (const ReadFile& f : netlist_.files)
+            if (f.role == ReadFile::Role::top) top_ = f.path;
+        choose_copies();
+        DerivedDeck out;
+        for (const Card& card : netlist_.cards)
+            if (left_out(card))
+                out.left_out.push_back({card.first.file, card.first.line,
+                                        card.kind == Card::Kind::control_block ? ".control ... .endc" : card.text});
+        std::size_t k = 0;
+        for (const auto& [original, copy] : copies_) {
+            (void)copy;
+            if (original == top_) continue;
+            copies_[original] = folder_ / fmt::format("include{}-{}", ++k, original.filename().string());
+        }
+        for (const auto& [original, copy] : copies_) {
+            std::string text = derive(original);
+            if (original == top_) out.top = std::move(text);
+            else out.included.push_back({copy, original, std::move(text)});
+        }
+        return out;
+    }
+
+private:
+    const netlist::FlatNetlist& netlist_;
+    fs::path folder_;
+    fs::path top_;
+    std::map<fs::path, ReadFile::Role> roles_;
+    std::map<fs::path, fs::path> copies_;  // original -> copy (the top's is filled by the caller)
+
+    ReadFile::Role role_of(const fs::path& file) const {
+        auto it = roles_.find(file);
+        return it == roles_.end() ? ReadFile::Role::included : it->second;
+    }
+
+    void choose_copies() {
+        copies_[top_];
+        for (const Card& card : netlist_.cards) {
+            if (!left_out(card)) continue;
+            const fs::path file = normal(card.first.file);
+            if (role_of(file) == ReadFile::Role::library)
+                throw errors::card_in_library(Location(card.first.file, card.first.line, 1), card.keyword);
+            copies_[file];
+        }
+        for (const auto& ref : netlist_.references) {
+            const fs::path file = normal(ref.where.file);
+            if (ref.via_working_folder && role_of(file) != ReadFile::Role::library) copies_[file];
+        }
+        // Every includer of a copied file is copied too, so that it can name the copy.
+        for (bool grown = true; grown;) {
+            grown = false;
+            for (const auto& ref : netlist_.references) {
+                const fs::path file = normal(ref.where.file);
+                if (ref.library || !copies_.count(ref.resolved) || copies_.count(file)) continue;
+                if (role_of(file) == ReadFile::Role::library) continue;
+                copies_[file];
+                grown = true;
+            }
+        }
+    }
+
+    std::string derive(const fs::path& original) {
+        std::vector<std::string> lines = physical_lines(original);
+        auto comment = [&](std::size_t first, std::size_t last, const char* why) {
+            for (std::size_t n = first; n <= last && n <= lines.size(); ++n) lines[n - 1] = why + lines[n - 1];
+        };
+        for (const auto& ref : netlist_.references) {
+            if (normal(ref.where.file) != original || ref.where.line == 0 || ref.where.line > lines.size()) continue;
+            auto copy = ref.library ? copies_.end() : copies_.find(ref.resolved);
+            const bool to_copy = copy != copies_.end() && copy->first != top_;
+            if (fs::path(ref.written).is_absolute() && !to_copy) continue;
+            std::string& line = lines[ref.where.line - 1];
+            if (ref.column == 0 || ref.column - 1 + ref.length > line.size()) continue;
+            line.replace(ref.column - 1, ref.length, quoted(to_copy ? copy->second : ref.resolved));
+        }
+        for (const Card& card : netlist_.cards) {
+            if (normal(card.first.file) != original) continue;
+            if (left_out(card)) comment(card.first.line, card.last_line, "*(left out for the review) ");
+            else if (card.kind == Card::Kind::end && original == top_)
+                comment(card.first.line, card.last_line, "*(the review's lines follow) ");
+        }
+        std::string text;
+        for (const auto& l : lines) text += l;
+        return text;
+    }
+};
+
+}  // namespace
+
+std::string to_string(const LeftOutCard& card) { return fmt::format("{}:{}: {}", card.file, card.line, card.card); }
+
+DerivedDeck derive_deck(const netlist::FlatNetlist& netlist, const std::filesystem::path& folder) {
+    return Deriver(netlist, folder).run();
+}
+
+}  // namespace mirrorcheck

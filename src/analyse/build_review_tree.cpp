@@ -104,6 +104,13 @@ private:
                 if (d.device == l.device) index = device(d);
             r.levels.push_back({index, l.ro, l.gm, l.gmb, l.rs, l.rout});
         }
+        for (const auto& own : p_.own)
+            if (own.mirror == m.id && own.node == to_lower(oi.node)) {
+                r.own = own.value;
+                r.own_devices = own.devices;
+                r.own_held = own.held;
+            }
+        if (r.own.node.empty()) r.own.node = to_lower(oi.node);
         if (const auto* lin = at_node(p_.linearised, oi.node)) r.linearised = *lin;
         else r.linearised.node = to_lower(oi.node);
         if (const auto* sim = at_node(p_.simulated, oi.node)) r.simulated = *sim;

@@ -19,6 +19,7 @@ struct ReviewParts {
     const OpPoint& op;
     const std::vector<Mirror>& mirrors;
     const InspectionResult& inspection;  // mirrors in the order of `mirrors`
+    const std::vector<OwnResistance>& own;               // by mirror and output
     const std::vector<LinearisedImpedance>& linearised;  // by output node
     const std::vector<SolveNote>& solve_notes;           // the solve's circuit-level notes, once
     const std::vector<SimulatedImpedance>& simulated;    // by output node

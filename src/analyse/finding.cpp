@@ -65,34 +65,50 @@ const std::vector<FindingCodeInfo>& finding_catalogue() {
          "none needed; the value with body effect is the one to use",
          "Body effect changes Rout at {node} by {share}, {with_body} against {without_body} without it: the "
          "sources of its devices sit above their bulk."},
-        {C::inspection_vs_linearised, "inspection-vs-linearised", S::warning, "warning", 8,
-         "the hand formula and the exact small-signal solve disagree",
-         "read the cause in the message: a loaded output, a reference that is not AC ground, or the formula's "
-         "approximation",
-         "Rout at {node} by inspection ({inspection}) is {difference} the linearised solve's {linearised}, "
-         "beyond the {tolerance} tolerance: {cause}."},
+        {C::inspection_vs_own, "inspection-vs-own", S::warning, "warning", 8,
+         "the hand formula and the exact solve of the mirror alone disagree",
+         "read the cause in the message: a device out of saturation, a gate that is not AC ground, or the "
+         "formula's approximation",
+         "Rout at {node} by inspection ({inspection}) is {difference} the exact solve of the mirror alone "
+         "({own}), beyond the {tolerance} tolerance: {cause}."},
+        {C::loaded_output, "loaded-output", S::info, "info", 9,
+         "the node's impedance in the circuit is well below the mirror's own output resistance: something "
+         "else on the node loads it",
+         "none needed when the load is the design; set a floor with --min-impedance to have it checked",
+         "The output at {node} is loaded: the node shows {in_circuit} against the mirror's own {own} "
+         "({own_from})<, with {loads} in parallel>."},
+        {C::feedback_at_output, "feedback-at-output", S::info, "info", 10,
+         "the node's impedance in the circuit is above the mirror's own output resistance (or negative): "
+         "the circuit feeds the node back",
+         "none needed when the loop is the design (a reference core, a regulated node)",
+         "The node {node} shows {in_circuit} against the mirror's own {own} ({own_from}): the circuit around "
+         "the mirror feeds the node back."},
+        {C::low_node_impedance, "low-node-impedance", S::warning, "warning", 11,
+         "the node's impedance is below the minimum asked for (`--min-impedance`)",
+         "reduce the load on the node or raise the mirror's own output resistance (cascode, longer devices)",
+         "The node {node} shows {impedance} ({source}), below the {limit} asked for<, loaded by {loads}>."},
         {C::linearised_vs_simulated, "linearised-vs-simulated", S::warning,
-         "warning, or error when no benign cause explains it", 9,
+         "warning, or error when no benign cause explains it", 12,
          "the exact small-signal solve and the simulated impedance disagree",
          "read the cause in the message: frequency too high, a parameter missing, or a probe on the wrong node",
          "Rout at {node} from the linearised solve ({linearised}) is {difference} the simulated {simulated} "
          "({source}): {cause}."},
-        {C::inspection_vs_simulated, "inspection-vs-simulated", S::warning, "warning", 10,
+        {C::inspection_vs_simulated, "inspection-vs-simulated", S::warning, "warning", 13,
          "the hand formula and the simulated impedance disagree (no linearised value)",
          "read the cause in the message: a device on the output the formula leaves out, or the topology and "
          "the probe",
          "Rout at {node} by inspection ({inspection}) is {difference} the simulated {simulated} ({source}), and "
          "no linearised value can tell which is off: {cause}."},
         {C::not_linearised, "not-linearised", S::warning,
-         "warning; info when the solve fell back to the mirror's own devices", 11,
+         "warning; info when the solve fell back to the mirror's own devices", 14,
          "the exact small-signal solve could not be done for the whole circuit",
          "save the missing parameters (see the message) or accept the fallback",
          "The output at {node} was {how}: {note}."},
-        {C::not_simulated, "not-simulated", S::warning, "warning", 12,
-         "no probe measured this output's impedance in the simulation data",
+        {C::not_simulated, "not-simulated", S::info, "info", 15,
+         "no probe measured this output's impedance in the simulation data (simulation results were read)",
          "add a probe source on the output (see `mirrorcheck prepare`) or name one with --probe",
          "The output at {node} is {note}."},
-        {C::waiver_unused, "waiver-unused", S::info, "info", 13, "a line of the waiver file matched no finding",
+        {C::waiver_unused, "waiver-unused", S::info, "info", 16, "a line of the waiver file matched no finding",
          "remove the stale waiver",
          "The waiver at {place} (`{waiver}`) waives no finding: nothing matches it, or an earlier waiver already "
          "covers what it matches."},
@@ -115,9 +131,6 @@ const std::vector<CauseInfo>& cause_catalogue() {
         {C::collapsed_device, "collapsed-device",
          "{device} is in {region}, so the small-signal values the formula combines no longer describe a current "
          "source; fix its margin first"},
-        {C::loaded_output, "loaded-output",
-         "the output is loaded: the solve sees {loads} on {node} in parallel with the mirror, the formula does "
-         "not"},
         {C::approximate_formula, "approximate-formula", "the {method} formula is an approximation ({note})"},
         {C::low_gain_in_stack, "low-gain-in-stack",
          "{device} has an intrinsic gain gm·ro of only {gain}, where the formula's neglected terms matter"},

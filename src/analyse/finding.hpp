@@ -29,14 +29,17 @@ enum class FindingCode {
     ratio_error,
     low_intrinsic_gain,
     body_effect,
-    inspection_vs_linearised,
+    inspection_vs_own,
+    loaded_output,
+    feedback_at_output,
+    low_node_impedance,
     linearised_vs_simulated,
     inspection_vs_simulated,
     not_linearised,
     not_simulated,
     waiver_unused,
 };
-inline constexpr std::size_t finding_code_count = 13;
+inline constexpr std::size_t finding_code_count = 16;
 
 // "out-of-saturation", ...: the stable name that JSON, JUnit and waiver files use.
 std::string_view to_string(FindingCode code);
@@ -46,7 +49,6 @@ std::optional<FindingCode> parse_finding_code(std::string_view name);
 enum class CauseCode {
     unbounded_formula,      // a device reports gds = 0
     collapsed_device,       // a device out of saturation
-    loaded_output,          // other devices on the output node, seen by the solve
     approximate_formula,    // the family formula is an approximation
     low_gain_in_stack,      // a level with gm·ro below low_intrinsic_gain
     gate_not_ac_ground,     // nothing else explains it
@@ -56,7 +58,7 @@ enum class CauseCode {
     devices_on_output,      // no solve, but the netlist shows devices the formula leaves out
     data_mismatch,          // the op data and the simulation disagree, no benign cause
 };
-inline constexpr std::size_t cause_code_count = 11;
+inline constexpr std::size_t cause_code_count = 10;
 std::string_view to_string(CauseCode code);
 
 // How a number is written in a sentence (src/report/finding_text.cpp).

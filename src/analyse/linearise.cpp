@@ -53,9 +53,6 @@
 // non-quasi-static effects, excess phase, nonlinear sources).
 #include "src/analyse/linearise.hpp"
 
-#include <Eigen/Sparse>
-#include <Eigen/SparseLU>
-
 #include <algorithm>
 #include <cmath>
 #include <numbers>
@@ -64,6 +61,7 @@
 #include <fmt/format.h>
 
 #include "parsers/common/text.hpp"
+#include "src/analyse/dc_solver.hpp"
 #include "src/analyse/impedance_spectrum.hpp"
 #include "src/analyse/small_signal_network.hpp"
 
@@ -71,11 +69,8 @@ namespace mirrorcheck {
 
 namespace {
 
-constexpr double shunt_gmin = 1e-12;
 constexpr const char* whole_circuit = "whole circuit";
 constexpr const char* mirror_devices_only = "mirror devices only";
-
-using Lu = Eigen::SparseLU<Eigen::SparseMatrix<double>, Eigen::COLAMDOrdering<int>>;
 
 std::string join(const std::vector<std::string>& parts, std::string_view sep) {
     std::string s;
@@ -102,117 +97,11 @@ void add_solve_notes(LinearisedSolve& solve, const std::string& prefix, const st
     for (const auto& n : notes) add_solve_note(solve, prefix + n.text(), prefix + n.cause, n.devices);
 }
 
-// The excitation for a port and the functional that reads its impedance: 1 A into the node
-// (Z = x[node]), or 1 V from its probe source (Z = 1/q, q = -sign·x[branch]).
-Eigen::VectorXd excitation(const Port& port, long size) {
-    Eigen::VectorXd j = Eigen::VectorXd::Zero(size);
-    if (port.branch >= 0) j[port.branch] = port.sign;
-    else j[port.node] = 1.0;
-    return j;
-}
-
-std::optional<double> impedance_of(const Port& port, const Eigen::VectorXd& x) {
-    const double z = port.branch >= 0 ? 1.0 / (-port.sign * x[port.branch]) : x[port.node];
-    if (!std::isfinite(z)) return std::nullopt;
-    return z;
-}
-
-// The DC factorisation of a network, with gmin added when it is singular without.
-struct DcSolver {
-    const SmallSignalNetwork& network;
-    Lu lu;
-    double gmin = 0;
-    std::string failure;  // why it could not be factorised; empty when it could
-    std::string note;     // the gmin shunt, when added
-
-    explicit DcSolver(const SmallSignalNetwork& n) : network(n) {
-        if (network.size() == 0) {
-            failure = "the circuit has no nodes besides ground";
-            return;
-        }
-        Eigen::SparseMatrix<double> a = network.conductance_matrix(0.0);
-        lu.analyzePattern(a);
-        lu.factorize(a);
-        if (lu.info() == Eigen::Success) return;
-        // Singular: a node without a DC path to ground. Shunt every node with SPICE's gmin.
-        gmin = shunt_gmin;
-        a = network.conductance_matrix(gmin);
-        lu.analyzePattern(a);
-        lu.factorize(a);
-        if (lu.info() != Eigen::Success)
-            failure = "the network is singular (a loop of voltage sources or shorts?)";
-        else
-            note = "singular network: 1e-12 S added from every node to ground";
-    }
-
-    // See Port (small_signal_network.hpp): 1 A into the node, or 1 V from its probe source.
-    std::optional<double> resistance(const Port& port) {
-        Eigen::VectorXd x = lu.solve(excitation(port, network.size()));
-        if (lu.info() != Eigen::Success) return std::nullopt;
-        return impedance_of(port, x);
-    }
-
-    // The resistance at the low and high corners of the bounded stamps (see the file comment).
-    std::optional<std::pair<double, double>> range(const Port& port, double estimate) {
-        if (network.bounded.empty()) return std::nullopt;
-        const long n = network.size();
-        Eigen::VectorXd x = lu.solve(excitation(port, n));
-        if (lu.info() != Eigen::Success) return std::nullopt;
-        Eigen::VectorXd c = Eigen::VectorXd::Zero(n);
-        const double q = port.branch >= 0 ? -port.sign * x[port.branch] : 0.0;
-        if (port.branch >= 0) c[port.branch] = -port.sign;
-        else c[port.node] = 1.0;
-        Eigen::VectorXd lambda = lu.transpose().solve(c);
-        if (lu.info() != Eigen::Success) return std::nullopt;
-        // First-order change of Z when stamp k goes to each end.
-        std::vector<int> high(network.bounded.size(), -1), low(network.bounded.size(), -1);
-        for (std::size_t k = 0; k < network.bounded.size(); ++k) {
-            double best_up = 0, best_down = 0;
-            for (int end = 0; end < 2; ++end) {
-                double dq = 0;
-                for (const auto& t : network.bounded_change(k, end)) dq -= lambda[t.row()] * t.value() * x[t.col()];
-                const double dz = port.branch >= 0 ? -dq / (q * q) : dq;
-                if (dz > best_up) {
-                    best_up = dz;
-                    high[k] = end;
-                }
-                if (dz < best_down) {
-                    best_down = dz;
-                    low[k] = end;
-                }
-            }
-        }
-        double lo = estimate, hi = estimate;
-        for (const auto* ends : {&low, &high}) {
-            Lu corner;
-            Eigen::SparseMatrix<double> a = network.conductance_matrix(gmin, ends);
-            corner.analyzePattern(a);
-            corner.factorize(a);
-            if (corner.info() != Eigen::Success) return std::nullopt;
-            Eigen::VectorXd xc = corner.solve(excitation(port, n));
-            auto z = impedance_of(port, xc);
-            if (!z) return std::nullopt;
-            lo = std::min(lo, *z);
-            hi = std::max(hi, *z);
-        }
-        return std::pair{lo, hi};
-    }
-};
-
-void solve_port(LinearisedImpedance& r, DcSolver& dc, const Port& k) {
-    r.resistance = dc.resistance(k);
-    if (!r.resistance) return;
-    if (auto range = dc.range(k, *r.resistance)) {
-        r.resistance_low = range->first;
-        r.resistance_high = range->second;
-    }
-}
-
 // The circuit-level notes of a network that could be solved.
 void note_network(LinearisedSolve& solve, const SmallSignalNetwork& network, const DcSolver& dc,
                   const std::string& prefix) {
     add_solve_notes(solve, prefix, network.notes);
-    if (!dc.note.empty()) add_solve_note(solve, prefix + dc.note);
+    if (!dc.note().empty()) add_solve_note(solve, prefix + dc.note());
     std::vector<DeviceNote> bounded;
     std::set<std::string> seen;
     for (const auto& b : network.bounded)
@@ -289,7 +178,7 @@ std::vector<DeviceNote> solve_whole_circuit(LinearisedSolve& solve, const Circui
     SmallSignalNetwork network = build_circuit_network(circuit, op, probed);
     if (!network.problems.empty()) return network.problems;
     DcSolver dc(network);
-    if (!dc.failure.empty()) return {{dc.failure, {}}};
+    if (!dc.failure().empty()) return {{dc.failure(), {}}};
     note_network(solve, network, dc, "");
 
     std::vector<LinearisedImpedance*> solved;
@@ -310,7 +199,7 @@ std::vector<DeviceNote> solve_whole_circuit(LinearisedSolve& solve, const Circui
         solved.push_back(&r);
         nodes.push_back(k);
     }
-    add_spectrum(solve, solved, nodes, network, dc.gmin, frequencies, "");
+    add_spectrum(solve, solved, nodes, network, dc.gmin(), frequencies, "");
     return {};
 }
 
@@ -346,9 +235,9 @@ void solve_own_devices(LinearisedSolve& solve, LinearisedImpedance& r, const Lin
     }
     DcSolver dc(network);
     const Port k = network.port(r.node);
-    if (dc.failure.empty()) solve_port(r, dc, k);
+    if (dc.failure().empty()) solve_port(r, dc, k);
     if (!r.resistance) {
-        r.note = not_whole + "; nor on the mirror's own devices: " + (dc.failure.empty() ? "the solve failed" : dc.failure);
+        r.note = not_whole + "; nor on the mirror's own devices: " + (dc.failure().empty() ? "the solve failed" : dc.failure());
         return;
     }
     r.scope = mirror_devices_only;
@@ -356,7 +245,7 @@ void solve_own_devices(LinearisedSolve& solve, LinearisedImpedance& r, const Lin
              device_list(circuit, target.own_devices) + ", every other net at AC ground";
     const std::string prefix = "mirror's own devices: ";
     note_network(solve, network, dc, prefix);
-    add_spectrum(solve, {&r}, {k}, network, dc.gmin, frequencies, prefix);
+    add_spectrum(solve, {&r}, {k}, network, dc.gmin(), frequencies, prefix);
 }
 
 // The reasons the whole circuit was refused, short: each cause with a few devices.

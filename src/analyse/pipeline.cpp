@@ -9,6 +9,7 @@
 #include "src/analyse/build_review_tree.hpp"
 #include "src/analyse/designer_names.hpp"
 #include "src/analyse/linearise.hpp"
+#include "src/analyse/own_resistance.hpp"
 #include "src/analyse/reconcile.hpp"
 #include "src/model/op_point_build.hpp"
 #include "src/recognise/find_mirrors.hpp"
@@ -86,6 +87,8 @@ ReviewThresholds thresholds_of(const ReviewSettings& s) {
     t.vce_sat = s.inspect.vce_sat;
     t.ratio_tolerance = s.inspect.ratio_tolerance;
     t.tolerance = s.tolerance;
+    t.min_impedance = s.min_impedance;
+    t.min_impedance_by_node = s.min_impedance_by_node;
     t.at = s.simulated.at;
     t.probes = s.simulated.probes;
     t.waiver_files = s.waiver_files;
@@ -102,15 +105,17 @@ ReviewTree run_review(const Circuit& circuit, const OpPoint& given_op, const std
     const std::vector<Mirror> mirrors = find_mirrors(circuit);
     require_transistor_quantities(op, circuit, transistors_of(circuit, mirrors));
     const InspectionResult inspection = inspect_mirrors(circuit, op, mirrors, settings.inspect);
+    const std::vector<OwnResistance> own = compute_own_resistances(circuit, op, mirrors);
     const LinearisedSolve linearised =
         compute_linearised_impedances(circuit, op, linearise_targets(mirrors), ac_frequencies(plots));
     const std::vector<SimulatedImpedance> simulated =
         find_simulated_impedances(circuit, plots, output_nodes(mirrors), settings.simulated);
-    const ReconcileOptions reconcile{settings.tolerance, !plots.empty(), no_gmb};
+    const ReconcileOptions reconcile{settings.tolerance, !plots.empty(), no_gmb, settings.min_impedance,
+                                     settings.min_impedance_by_node};
     const Reconciliation reconciliation =
-        reconcile_resistances(circuit, mirrors, inspection, linearised.outputs, simulated, reconcile);
+        reconcile_resistances(circuit, mirrors, inspection, own, linearised.outputs, simulated, reconcile);
 
-    ReviewParts parts{circuit, op, mirrors, inspection, linearised.outputs, linearised.notes, simulated, reconciliation,
+    ReviewParts parts{circuit, op, mirrors, inspection, own, linearised.outputs, linearised.notes, simulated, reconciliation,
                       inspection.findings, {}, inputs, thresholds_of(settings), find_designer_names(circuit, mirrors)};
     if (!no_gmb.empty()) {
         std::string names;

@@ -2,7 +2,9 @@
 // into the review tree that every back end reads.
 #pragma once
 
+#include <optional>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "parsers/waivers/waivers.hpp"
@@ -18,7 +20,9 @@ namespace mirrorcheck {
 struct ReviewSettings {
     InspectOptions inspect;
     SimulatedOptions simulated;             // --probe, --at
-    double tolerance = 0.10;                // --tolerance: the three resistance values must agree within this
+    double tolerance = 0.10;                // --tolerance: the resistance values must agree within this
+    std::optional<double> min_impedance;    // --min-impedance R: every output node's floor
+    std::vector<std::pair<std::string, double>> min_impedance_by_node;  // --min-impedance NODE=R
     waivers::Waivers waivers;               // --waive: findings accepted, shown as waived
     std::vector<std::string> waiver_files;  // where they came from
     Severity fail_on = Severity::error;     // --fail-on: findings at this severity or worse fail the review

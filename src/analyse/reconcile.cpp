@@ -1,23 +1,29 @@
-// Reconciliation of the three resistance values of each output.
+// Reconciliation of the resistance values of each output.
 //
+// Two quantities are told apart (own_resistance.cpp, linearise.cpp): the mirror's own
+// output resistance (the mirror alone, solved exactly: what the hand formula describes)
+// and the impedance of the node in the circuit (linearised whole circuit; simulated).
 // Pairs compared, each against the tolerance (relative, default 10 %, common practice, no
 // source):
-//   inspection vs linearised   the hand formula's error: what it neglects (a load on the
-//                              output, a device out of saturation, an approximation, a gate
-//                              or base that is not AC ground)
+//   inspection vs own          the hand formula's error: what it neglects (a device out of
+//                              saturation, an approximation, a gate or base that is not AC
+//                              ground); a warning
+//   own vs linearised          what the circuit adds at the node: a load (the node's
+//                              impedance below the mirror's own) or feedback (above it, or
+//                              negative); information, not a defect. A warning only against
+//                              a floor the user sets (--min-impedance)
 //   linearised vs simulated    what the op data does not capture: frequency, a parameter
 //                              missing or misread, an op that differs from the AC run's, a
 //                              probe elsewhere than the mirror output
 //   inspection vs simulated    reported only when there is no linearised value (otherwise
-//                              the two pairs above already explain it)
+//                              the pairs above already explain it); a node the netlist shows
+//                              loaded is then information too
 // The first cause whose evidence is present is named; the checks run from the most
-// specific evidence to the least. Without a linearised value, the devices the netlist puts
-// on the output node beside the mirror (which the formula leaves out) are named before the
-// data is blamed. A finding carries its cause as a record (CauseCode and values); the
-// sentences are in the catalogue (finding.cpp). Severity: a disagreement with a named, benign cause
-// (frequency, a known neglected effect) is a warning; linearised vs simulated without a
-// cause is an error, because then the simulation and its own op data tell different stories
-// and neither can be signed off.
+// specific evidence to the least. A finding carries its cause as a record (CauseCode and
+// values); the sentences are in the catalogue (finding.cpp). Severity: a disagreement with a
+// named, benign cause (frequency, a known neglected effect) is a warning; linearised vs
+// simulated without a cause is an error, because then the simulation and its own op data
+// tell different stories and neither can be signed off.
 #include "src/analyse/reconcile.hpp"
 
 #include <algorithm>
@@ -102,8 +108,6 @@ Cause formula_cause(const Context& c, const ResistanceComparison& cmp) {
     if (const DeviceRegion* d = collapsed_device(c.mi, c.oi))
         return cause(CauseCode::collapsed_device,
                      {V::names("device", {d->name}), V::words("region", std::string(to_string(d->region)))});
-    if (auto loads = loads_on(c.circuit, c.output); !loads.empty() && cmp.first > cmp.second)
-        return cause(CauseCode::loaded_output, {V::names("loads", loads), V::words("node", c.output.node)});
     if (!best.exact)
         return cause(CauseCode::approximate_formula, {V::words("method", best.method), V::words("note", best.note)});
     for (std::size_t k = 1; k < c.oi.levels.size(); ++k) {
@@ -135,16 +139,38 @@ std::pair<Severity, Cause> simulation_cause(const Context& c, const SimulatedVal
     // mirror whose output also carries a PMOS diode was once blamed on the data.
     if (!lin)
         if (auto loads = loads_on(c.circuit, c.output); !loads.empty() && computed > sim.magnitude)
-            return {Severity::warning,
+            return {Severity::info,
                     cause(CauseCode::devices_on_output, {V::names("loads", loads), V::words("node", c.output.node)})};
     return {Severity::error, cause(CauseCode::data_mismatch)};
 }
 
-void reconcile_output(const Context& c, const LinearisedImpedance* lin, const SimulatedImpedance* sim,
-                      OutputReconciliation& out) {
+// The node's impedance against the mirror's own: loading and feedback are information; a
+// floor the user set is checked.
+void compare_own_and_node(const Context& c, double own, const char* own_from, double node, const char* node_from) {
+    const double tol = c.options.tolerance;
+    const auto loads = loads_on(c.circuit, c.output);
+    std::vector<FindingValue> values = {V::of("in_circuit", node, Unit::ohm), V::of("own", own, Unit::ohm),
+                                        V::words("own_from", own_from)};
+    if (node < own * (1 - tol) && node > 0) {
+        if (!loads.empty()) values.push_back(V::names("loads", loads));
+        c.add(FindingCode::loaded_output, Severity::info, std::move(values));
+    } else if (node > own * (1 + tol) || node <= 0) {
+        c.add(FindingCode::feedback_at_output, Severity::info, std::move(values));
+    }
+    if (auto limit = c.options.min_impedance_at(c.output.node); limit && node < *limit) {
+        std::vector<FindingValue> v = {V::of("impedance", node, Unit::ohm), V::words("source", node_from),
+                                       V::of("limit", *limit, Unit::ohm)};
+        if (!loads.empty()) v.push_back(V::names("loads", loads));
+        c.add(FindingCode::low_node_impedance, Severity::warning, std::move(v));
+    }
+}
+
+void reconcile_output(const Context& c, const OwnResistance* own_solve, const LinearisedImpedance* lin,
+                      const SimulatedImpedance* sim, OutputReconciliation& out) {
     const double tol = c.options.tolerance;
     const RoutEstimate& best = c.oi.best();
     const std::optional<double> inspection = best.value > 0 ? std::optional<double>(best.value) : std::nullopt;
+    const std::optional<double> own = own_solve ? own_solve->value.resistance : std::nullopt;
     const std::optional<double> linearised = lin ? lin->resistance : std::nullopt;
     const SimulatedValue* simulated = sim ? sim->best() : nullptr;
     const FindingValue tolerance = V::of("tolerance", tol, Unit::percent);
@@ -156,17 +182,26 @@ void reconcile_output(const Context& c, const LinearisedImpedance* lin, const Si
         c.add(FindingCode::not_linearised, Severity::info,
               {V::words("how", "solved on the mirror's own devices only, not the whole circuit"),
                V::words("note", lin->note)});
+    if (!own && own_solve && !own_solve->value.note.empty())
+        c.add(FindingCode::not_linearised, Severity::warning,
+              {V::words("how", "not solved as a mirror alone"), V::words("note", own_solve->value.note)});
     if (!simulated && sim && c.options.simulation_given)
-        c.add(FindingCode::not_simulated, Severity::warning, {V::words("note", sim->note)});
+        c.add(FindingCode::not_simulated, Severity::info, {V::words("note", sim->note)});
 
-    if (inspection && linearised) {
-        auto cmp = compare("inspection-vs-linearised", *inspection, *linearised, tol);
+    if (inspection && own) {
+        auto cmp = compare("inspection-vs-own", *inspection, *own, tol);
         out.comparisons.push_back(cmp);
         if (!cmp.agrees)
-            c.add(FindingCode::inspection_vs_linearised, Severity::warning,
-                  {V::of("inspection", cmp.first, Unit::ohm), V::of("linearised", cmp.second, Unit::ohm),
+            c.add(FindingCode::inspection_vs_own, Severity::warning,
+                  {V::of("inspection", cmp.first, Unit::ohm), V::of("own", cmp.second, Unit::ohm),
                    V::of("difference", cmp.difference, Unit::relation), tolerance},
                   formula_cause(c, cmp));
+    }
+    if (own && linearised && lin->scope != "mirror devices only") {
+        out.comparisons.push_back(compare("own-vs-linearised", *own, *linearised, tol));
+        compare_own_and_node(c, *own, "the mirror alone, solved exactly", *linearised, "linearised, in the circuit");
+    } else if (!linearised && inspection && simulated) {
+        compare_own_and_node(c, *inspection, "by inspection", simulated->magnitude, "simulated");
     }
     if (linearised && simulated) {
         auto cmp = compare("linearised-vs-simulated", *linearised, simulated->magnitude, tol);
@@ -186,11 +221,13 @@ void reconcile_output(const Context& c, const LinearisedImpedance* lin, const Si
         if (!cmp.agrees && !linearised) {
             auto [severity, why] = simulation_cause(c, *simulated, *inspection, nullptr);
             if (severity == Severity::error) severity = Severity::warning;  // the formula may be the one at fault
-            c.add(FindingCode::inspection_vs_simulated, severity,
-                  {V::of("inspection", cmp.first, Unit::ohm), V::of("simulated", cmp.second, Unit::ohm),
-                   V::of("difference", cmp.difference, Unit::relation), V::words("source", simulated->source),
-                   tolerance},
-                  why);
+            // A node the netlist shows loaded has been reported as such (loaded-output) above.
+            if (why.code != CauseCode::devices_on_output)
+                c.add(FindingCode::inspection_vs_simulated, severity,
+                      {V::of("inspection", cmp.first, Unit::ohm), V::of("simulated", cmp.second, Unit::ohm),
+                       V::of("difference", cmp.difference, Unit::relation), V::words("source", simulated->source),
+                       tolerance},
+                      why);
         }
     }
 }
@@ -202,10 +239,22 @@ const T* at_node(const std::vector<T>& values, const std::string& node) {
     return nullptr;
 }
 
+const OwnResistance* own_of(const std::vector<OwnResistance>& own, const std::string& mirror, const std::string& node) {
+    for (const auto& o : own)
+        if (o.mirror == mirror && o.node == to_lower(node)) return &o;
+    return nullptr;
+}
+
 }  // namespace
 
+std::optional<double> ReconcileOptions::min_impedance_at(const std::string& node) const {
+    for (const auto& [n, limit] : min_impedance_by_node)
+        if (iequals(n, node)) return limit;
+    return min_impedance;
+}
+
 Reconciliation reconcile_resistances(const Circuit& circuit, const std::vector<Mirror>& mirrors,
-                                     const InspectionResult& inspection,
+                                     const InspectionResult& inspection, const std::vector<OwnResistance>& own,
                                      const std::vector<LinearisedImpedance>& linearised,
                                      const std::vector<SimulatedImpedance>& simulated,
                                      const ReconcileOptions& options) {
@@ -216,7 +265,8 @@ Reconciliation reconcile_resistances(const Circuit& circuit, const std::vector<M
         for (std::size_t j = 0; j < m.outputs.size() && j < mi.outputs.size(); ++j) {
             OutputReconciliation out{m.id, m.outputs[j].node, {}};
             Context c{circuit, m, m.outputs[j], mi, mi.outputs[j], options, result.findings};
-            reconcile_output(c, at_node(linearised, out.node), at_node(simulated, out.node), out);
+            reconcile_output(c, own_of(own, m.id, out.node), at_node(linearised, out.node),
+                             at_node(simulated, out.node), out);
             result.outputs.push_back(std::move(out));
         }
     }

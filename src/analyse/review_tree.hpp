@@ -11,6 +11,7 @@
 #include <map>
 #include <optional>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "src/analyse/finding.hpp"
@@ -45,6 +46,8 @@ struct ReviewThresholds {
     double vce_sat = 0.2;
     double ratio_tolerance = 0.05;
     double tolerance = 0.10;
+    std::optional<double> min_impedance;  // ohms: every output node's floor, when set
+    std::vector<std::pair<std::string, double>> min_impedance_by_node;
     std::optional<double> at;             // Hz
     std::vector<ProbeChoice> probes;
     std::vector<std::string> waiver_files;
@@ -86,7 +89,11 @@ struct ReviewResistance {
     RoutEstimate inspection;       // the family formula where there is one, else the reflection rule
     double reflection = 0;         // the plain reflection rule's value
     std::vector<ReviewLevel> levels;
-    LinearisedImpedance linearised;
+    // The mirror's own (the mirror alone, exact solve; scope "mirror alone"): what inspection
+    // is compared with; the devices it covered and the nets it held, ngspice names.
+    LinearisedImpedance own;
+    std::vector<std::string> own_devices, own_held;
+    LinearisedImpedance linearised;  // the node in the circuit
     SimulatedImpedance simulated;
     std::vector<ResistanceComparison> comparisons;
 };

@@ -729,14 +729,13 @@ private:
     std::string uncharged_example_;  // the save line for the first device without capacitances
 };
 
-// True for the terminals that only sense a voltage: MOS gate and bulk, bipolar base and substrate.
+}  // namespace
+
 bool is_control_terminal(const Device& d, std::string_view role) {
     if (d.kind == DeviceKind::mosfet) return role != "d" && role != "s";
     if (d.kind == DeviceKind::bjt) return role != "c" && role != "e";
     return role.starts_with("cpos") || role.starts_with("cneg");
 }
-
-}  // namespace
 
 SmallSignalNetwork build_circuit_network(const Circuit& circuit, const OpPoint& op, const std::set<std::string>& probed) {
     std::vector<std::string> nets;
@@ -763,11 +762,19 @@ SmallSignalNetwork build_device_network(const Circuit& circuit, const OpPoint& o
     }
     std::vector<std::string> nets = {to_lower(target)};
     for (const auto& [net, by] : reached)
-        if (by.size() >= 2) nets.push_back(net);
+        if (by.size() >= 2 && net != nets.front()) nets.push_back(net);
+    return build_device_network(circuit, op, devices, nets);
+}
+
+SmallSignalNetwork build_device_network(const Circuit& circuit, const OpPoint& op,
+                                        const std::vector<std::size_t>& devices,
+                                        const std::vector<std::string>& kept) {
+    std::vector<std::string> nets;
+    for (const auto& n : kept) nets.push_back(to_lower(n));
     SmallSignalNetwork network(nets);
     Stamper stamper(network, circuit, op);
     stamper.internal_nodes(devices);
-    stamper.voltage_sources(devices, {to_lower(target)});
+    stamper.voltage_sources(devices, {nets.begin(), nets.end()});
     stamper.others(devices);
     return network;
 }

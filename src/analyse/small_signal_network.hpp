@@ -104,6 +104,10 @@ private:
     std::vector<Eigen::Triplet<double>> c_;
 };
 
+// True for the terminals that only sense a voltage: MOS gate and bulk, bipolar base and
+// substrate, the controlling pair of a controlled source.
+bool is_control_terminal(const Device& d, std::string_view role);
+
 // The whole circuit. An independent voltage source touching a net of `probed` (lower case)
 // is that net's probe: the net's impedance is measured through it, with every other probe
 // in place, holding its own net as the deck does (what `.tf` of each probe reports).
@@ -115,5 +119,11 @@ SmallSignalNetwork build_circuit_network(const Circuit& circuit, const OpPoint& 
 // do the devices' internal nodes; every other net, gates and bases included, is AC ground.
 SmallSignalNetwork build_device_network(const Circuit& circuit, const OpPoint& op,
                                         const std::vector<std::size_t>& devices, const std::string& target);
+
+// Only `devices`, with exactly the nets `kept` keeping their voltage (and the devices'
+// internal nodes); every other net is AC ground. A voltage source among the devices that
+// touches a kept net is left out.
+SmallSignalNetwork build_device_network(const Circuit& circuit, const OpPoint& op,
+                                        const std::vector<std::size_t>& devices, const std::vector<std::string>& kept);
 
 }  // namespace mirrorcheck

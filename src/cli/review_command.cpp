@@ -39,10 +39,28 @@ InspectOptions inspect_options(const ReviewOptions& o) {
     return options;
 }
 
+// "1Mohm", "500kΩ".
+double ohms(const std::string& option, const std::string& text) {
+    if (auto v = parse_quantity(text, "Ω"); v && *v >= 0) return *v;
+    return quantity(option, text, "ohm");
+}
+
+// --min-impedance R (every output) or NODE=R (one output node, before the general one).
+void add_min_impedance(ReviewSettings& settings, const std::string& text) {
+    const auto eq = text.find('=');
+    if (eq == std::string::npos) {
+        settings.min_impedance = ohms("--min-impedance", text);
+        return;
+    }
+    if (eq == 0 || eq + 1 == text.size()) throw usage::bad_min_impedance(text);
+    settings.min_impedance_by_node.emplace_back(text.substr(0, eq), ohms("--min-impedance", text.substr(eq + 1)));
+}
+
 ReviewSettings review_settings(const ReviewOptions& o) {
     ReviewSettings settings;
     settings.inspect = inspect_options(o);
     settings.tolerance = quantity("--tolerance", o.tolerance, "%");
+    for (const auto& m : o.min_impedance) add_min_impedance(settings, m);
     for (const auto& path : o.waive) {
         auto more = waivers::read_waivers(path, finding_code_names());
         settings.waivers.insert(settings.waivers.end(), more.begin(), more.end());
@@ -128,6 +146,9 @@ void add_judgement_options(CLI::App& cmd, ReviewOptions& o) {
                    "frequency at which to read AC plots, within their sweep (default: each plot's lowest), e.g. 10Hz");
     cmd.add_option("--tolerance", o.tolerance,
                    "relative difference above which two resistance values disagree (default 10%)");
+    cmd.add_option("--min-impedance", o.min_impedance,
+                   "R or NODE=R: warn when an output node's impedance in the circuit is below R, e.g. 1Mohm or "
+                   "out=500kohm (repeatable; without it a loaded node is information only)");
     cmd.add_option("--waive", o.waive, "waiver file: lines `SUBJECT CODE REASON` of findings to accept (repeatable)")
         ->check(CLI::ExistingFile);
     cmd.add_option("--format", o.format, "output format: table, json (schema mirrorcheck-report/1) or junit (XML)")
@@ -144,11 +165,13 @@ void add_review_command(CLI::App& app, int& status) {
     CLI::App* cmd = app.add_subcommand("review", "Check every current mirror against an operating point");
     cmd->footer(
         "For each mirror: each transistor's region and saturation margin, the output\n"
-        "headroom, the current ratio against the design, and the output resistance three\n"
-        "ways: by inspection (reflection rule and family formulas), linearised (an exact\n"
-        "small-signal solve of the whole circuit) and simulated (read through a probe\n"
-        "source from AC or .tf plots), with a finding naming the likely cause wherever two\n"
-        "disagree by more than --tolerance. The operating point comes from an ngspice raw\n"
+        "headroom, the current ratio against the design, and the output resistance: by\n"
+        "inspection (reflection rule and family formulas) against the mirror's own (an\n"
+        "exact small-signal solve of the mirror alone), and the impedance the node shows in\n"
+        "the circuit, linearised (the whole circuit solved) and simulated (read through a\n"
+        "probe source from AC or .tf plots), with a finding naming the likely cause wherever\n"
+        "two disagree by more than --tolerance; a node loaded by the circuit is reported as\n"
+        "information, and checked only against --min-impedance. The operating point comes from an ngspice raw\n"
         "file (op plot, or an AC plot that repeats the device parameters) or from ngspice's\n"
         "`show all` listing; `mirrorcheck prepare` writes a deck that saves all of it.\n\n"
         "Values take their unit (100mV, 10%, 1kHz); a bare number is refused.\n\n"

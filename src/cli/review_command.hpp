@@ -22,6 +22,7 @@ struct ReviewOptions {
     std::vector<std::string> probes;  // NODE=SOURCE
     std::string at;                   // frequency for AC values
     std::string tolerance = "10%";
+    std::vector<std::string> min_impedance;  // R or NODE=R
     std::vector<std::string> waive;   // waiver files
     std::string fail_on = "error";    // the severity that fails the review (exit 1, JUnit failures)
     bool summary = false;             // the table's verdict and summary rows alone

@@ -53,6 +53,11 @@ InputError bad_probe(const std::string& text) {
             fmt::format("`{}` is not NODE=SOURCE (example: --probe out=vout)", text)};
 }
 
+InputError bad_min_impedance(const std::string& text) {
+    return {"usage.min-impedance", Location("--min-impedance"),
+            fmt::format("`{}` is not R or NODE=R (examples: --min-impedance 1Mohm, --min-impedance out=500kohm)", text)};
+}
+
 InputError no_small_signal_plot(const std::string& path) {
     return {"usage.no-small-signal-plot", Location(path),
             "no AC or transfer-function plot here: expected an ngspice raw file written after `ac` or `tf`"};

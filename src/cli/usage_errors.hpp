@@ -15,6 +15,7 @@ InputError quantity_without_unit(const std::string& option, const std::string& t
 InputError negative_quantity(const std::string& option, const std::string& text);
 InputError no_op_plot(const std::string& path);
 InputError bad_probe(const std::string& text);
+InputError bad_min_impedance(const std::string& text);
 InputError no_small_signal_plot(const std::string& path);
 InputError sweep_not_upwards(const std::string& from, const std::string& to);
 InputError would_overwrite_input(const std::string& output, const std::string& input);

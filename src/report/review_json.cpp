@@ -94,6 +94,13 @@ json rout_json(const ReviewTree& t, const ReviewOutput& o) {
             {"note", best.note},
             {"reflection", number(r.reflection)},
             {"levels", levels},
+            {"own", number(r.own.resistance)},
+            {"own_range", r.own.resistance_low && r.own.resistance_high
+                              ? json::array({*r.own.resistance_low, *r.own.resistance_high})
+                              : json()},
+            {"own_note", r.own.note},
+            {"own_devices", r.own_devices},
+            {"own_held", r.own_held},
             {"linearised", number(r.linearised.resistance)},
             {"linearised_range", r.linearised.resistance_low && r.linearised.resistance_high
                                      ? json::array({*r.linearised.resistance_low, *r.linearised.resistance_high})
@@ -180,10 +187,14 @@ json device_json(const ReviewDevice& d) {
 json settings_json(const ReviewThresholds& s) {
     json probes = json::array();
     for (const auto& p : s.probes) probes.push_back({{"node", p.node}, {"source", p.source}});
+    json by_node = json::array();
+    for (const auto& [node, limit] : s.min_impedance_by_node) by_node.push_back({{"node", node}, {"limit", limit}});
     return {{"margin", s.margin},
             {"vce_sat", s.vce_sat},
             {"ratio_tolerance", s.ratio_tolerance},
             {"tolerance", s.tolerance},
+            {"min_impedance", number(s.min_impedance)},
+            {"min_impedance_by_node", by_node},
             {"at", number(s.at)},
             {"probes", probes},
             {"waivers", s.waiver_files},

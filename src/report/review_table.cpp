@@ -77,7 +77,8 @@ private:
 
     std::string resistance(const ReviewOutput& o, int which) const {
         if (which == 0) return o.rout.inspection.value > 0 ? format_si(o.rout.inspection.value, "Ω") : "-";
-        if (which == 1) return o.rout.linearised.resistance ? format_si(*o.rout.linearised.resistance, "Ω") : "-";
+        if (which == 1) return o.rout.own.resistance ? format_si(*o.rout.own.resistance, "Ω") : "-";
+        if (which == 2) return o.rout.linearised.resistance ? format_si(*o.rout.linearised.resistance, "Ω") : "-";
         const SimulatedValue* sim = o.rout.simulated.best();
         return sim ? format_si(sim->magnitude, "Ω") : "-";
     }
@@ -101,14 +102,15 @@ private:
 
     void summary_table() {
         std::vector<std::vector<std::string>> rows = {
-            {"output", "status", "inspection", "linearised", "simulated", "worst margin", "headroom", "ratio", "mirror"}};
+            {"output", "status", "inspection", "own", "node", "simulated", "worst margin", "headroom", "ratio", "mirror"}};
         std::vector<const ReviewOutput*> outputs;
         for (const ReviewMirror& m : t_.mirrors)
             for (const ReviewOutput& o : m.outputs) {
                 std::string worst = "-";
                 if (o.worst_device)
                     worst = name(*o.worst_device) + " " + format_si(t_.devices[*o.worst_device].margin, "V");
-                rows.push_back({o.node, status_word(o), resistance(o, 0), resistance(o, 1), resistance(o, 2), worst,
+                rows.push_back({o.node, status_word(o), resistance(o, 0), resistance(o, 1), resistance(o, 2),
+                                resistance(o, 3), worst,
                                 format_si(o.headroom.margin, "V"), ratio_text(o), m.label});
                 outputs.push_back(&o);
             }
@@ -121,7 +123,7 @@ private:
             const auto& r = rows[k];
             std::string text;
             for (std::size_t c = 0; c < r.size(); ++c) {
-                const bool numeric = c >= 2 && c <= 6;
+                const bool numeric = c >= 2 && c <= 7;
                 std::string cell = numeric ? pad_left(r[c], widths[c]) : pad_right(r[c], widths[c]);
                 if (c == 1 && k > 0) cell = colour(cell, status_colour(*outputs[k - 1]));
                 if (c + 1 == r.size()) cell = r[c];  // no trailing spaces
@@ -170,7 +172,8 @@ private:
     }
 
     std::string agreement(const ResistanceComparison& c) const {
-        std::string label = c.pair == "inspection-vs-linearised"  ? "inspection/linearised"
+        std::string label = c.pair == "inspection-vs-own"         ? "inspection/own"
+                            : c.pair == "own-vs-linearised"       ? "own/node"
                             : c.pair == "linearised-vs-simulated" ? "linearised/simulated"
                                                                   : "inspection/simulated";
         std::string value;
@@ -179,6 +182,15 @@ private:
             value = fmt::format("{:+.1f} %", std::abs(c.difference) < 5e-4 ? 0.0 : 100.0 * c.difference);
         else value = "×" + format_plain(c.difference + 1.0, 3);
         return label + " " + value + (c.agrees ? "" : " (" + colour("disagree", Colour::yellow) + ")");
+    }
+
+    // The range a solved value spans across what the op data leaves open, when it is not nil.
+    void range_line(const LinearisedImpedance& v, std::size_t hang) {
+        if (v.resistance_low && v.resistance_high && *v.resistance_high - *v.resistance_low > 1e-6 * std::abs(*v.resistance))
+            line(fmt::format("                      {:>9}  within {:+.2g} % to {:+.2g} %: what the op data leaves open",
+                             "", 100 * (*v.resistance_low / *v.resistance - 1),
+                             100 * (*v.resistance_high / *v.resistance - 1)),
+                 hang);
     }
 
     void resistances(const ReviewOutput& o) {
@@ -192,18 +204,28 @@ private:
         line(text_column + "= " + best.formula, hang + 2);
         // The plain reflection rule's note is the same everywhere (README: reading a review).
         if (!best.note.empty() && !(best.method == "reflection" && best.exact)) line(text_column + best.note, hang);
+        const LinearisedImpedance& own = o.rout.own;
+        if (own.resistance) {
+            std::string held;
+            for (const auto& n : o.rout.own_held)
+                if (n != "0") held += (held.empty() ? "" : ", ") + n;
+            line(fmt::format("          own         {:>9}  the mirror alone: {}{}", format_si(*own.resistance, "Ω"),
+                             value_text(FindingValue::names("", o.rout.own_devices), t_.display_names),
+                             held.empty() ? "" : "; held: " + held),
+                 hang);
+            range_line(own, hang);
+        } else {
+            line(fmt::format("          own         {:>9}  {}", "-", own.note.empty() ? "not computed" : own.note), hang);
+        }
         const LinearisedImpedance& lin = o.rout.linearised;
         if (lin.resistance) {
-            line(fmt::format("          linearised  {:>9}  {} at {}{}", format_si(*lin.resistance, "Ω"),
-                             lin.scope.empty() ? "whole circuit" : lin.scope, o.node,
+            const std::string where = lin.scope.empty() || lin.scope == "whole circuit"
+                                          ? "the node " + o.node + " in the whole circuit"
+                                          : "the node " + o.node + ", " + lin.scope;
+            line(fmt::format("          linearised  {:>9}  {}{}", format_si(*lin.resistance, "Ω"), where,
                              lin.note.empty() ? "" : "; " + lin.note),
                  hang);
-            if (lin.resistance_low && lin.resistance_high &&
-                *lin.resistance_high - *lin.resistance_low > 1e-6 * std::abs(*lin.resistance))
-                line(fmt::format("                      {:>9}  within {:+.2g} % to {:+.2g} %: what the op data leaves open",
-                                 "", 100 * (*lin.resistance_low / *lin.resistance - 1),
-                                 100 * (*lin.resistance_high / *lin.resistance - 1)),
-                     hang);
+            range_line(lin, hang);
             if (lin.corner_frequency)
                 line(fmt::format("                      {:>9}  where |Z| falls 3 dB below its DC value",
                                  format_si(*lin.corner_frequency, "Hz")),

@@ -62,7 +62,8 @@ std::vector<json> with_code(const json& report, const std::string& code) {
 }
 
 bool any_resistance_finding(const json& report) {
-    for (const char* c : {"inspection-vs-linearised", "linearised-vs-simulated", "inspection-vs-simulated"})
+    for (const char* c : {"inspection-vs-own", "loaded-output", "feedback-at-output", "linearised-vs-simulated",
+                          "inspection-vs-simulated"})
         if (!with_code(report, c).empty()) return true;
     return false;
 }
@@ -78,7 +79,7 @@ const json& rout_at(const json& report, const std::string& node) {
 
 }  // namespace
 
-TEST_CASE("healthy cascode: three values agree, no resistance finding, exit 0") {
+TEST_CASE("healthy cascode: the four values agree, no resistance finding, exit 0") {
     auto r = review(cascode(1.5, "") + control(saves({"m1", "m2", "m3", "m4"})));
     CHECK(r.status == 0);
     const json& rout = rout_at(r.report, "out");
@@ -89,20 +90,49 @@ TEST_CASE("healthy cascode: three values agree, no resistance finding, exit 0") 
     CHECK(rout["inspection"].get<double>() == doctest::Approx(rout["linearised"].get<double>()).epsilon(1e-3));
     CHECK(rout["probe"] == "vout");
     CHECK(rout["probe_mode"] == "held");
-    CHECK(rout["comparisons"].size() == 3);
+    // alone on its node, the mirror's own resistance is the node's
+    CHECK(rout["own"].get<double>() == doctest::Approx(rout["linearised"].get<double>()).epsilon(1e-6));
+    CHECK(rout["comparisons"].size() == 4);
     for (const auto& c : rout["comparisons"]) CHECK(c["agrees"] == true);
     CHECK_FALSE(any_resistance_finding(r.report));
 }
 
-TEST_CASE("loaded output: a resistor on the output makes inspection disagree with the solve and the simulation") {
+TEST_CASE("loaded output: reported as information naming the load; the mirror's own value is ngspice's without it") {
     auto r = review(cascode(1.5, "rleak out vdd 200k\n") + control(saves({"m1", "m2", "m3", "m4"})));
-    auto f = with_code(r.report, "inspection-vs-linearised");
+    auto f = with_code(r.report, "loaded-output");
+    REQUIRE(f.size() == 1);
+    CHECK(f[0]["severity"] == "info");
+    CHECK(f[0]["message"].get<std::string>().find("rleak") != std::string::npos);
+    CHECK(with_code(r.report, "inspection-vs-own").empty());        // the formula describes the mirror alone
+    CHECK(with_code(r.report, "linearised-vs-simulated").empty());  // both see the load
+    CHECK(r.report["summary"]["warnings"] == 0);
+    CHECK(r.status == 0);
+    // (a) the mirror's own resistance against ngspice: the same cascode simulated without the
+    // load (the probe holds `out` at the same voltage, so the operating point is the same).
+    auto bare = review(cascode(1.5, "") + control(saves({"m1", "m2", "m3", "m4"})));
+    const json& loaded = rout_at(r.report, "out");
+    CHECK(loaded["own"].get<double>() ==
+          doctest::Approx(rout_at(bare.report, "out")["simulated"].get<double>()).epsilon(1e-3));
+    // (b) the node with the load, against ngspice's AC at the node
+    CHECK(loaded["linearised"].get<double>() == doctest::Approx(loaded["simulated"].get<double>()).epsilon(1e-3));
+    CHECK(loaded["linearised"].get<double>() < 0.5 * loaded["own"].get<double>());
+}
+
+TEST_CASE("a floor on the node's impedance: --min-impedance turns the loaded node into a warning") {
+    auto r = review(cascode(1.5, "rleak out vdd 200k\n") + control(saves({"m1", "m2", "m3", "m4"})),
+                    "--min-impedance 1Mohm");
+    auto f = with_code(r.report, "low-node-impedance");
     REQUIRE(f.size() == 1);
     CHECK(f[0]["severity"] == "warning");
-    CHECK(f[0]["message"].get<std::string>().find("loaded") != std::string::npos);
-    CHECK(f[0]["message"].get<std::string>().find("rleak") != std::string::npos);
-    CHECK(with_code(r.report, "linearised-vs-simulated").empty());  // both see the load
-    CHECK(r.status == 0);
+    CHECK(f[0]["message"].get<std::string>().find("below the 1 MΩ asked for") != std::string::npos);
+    CHECK(r.report["settings"]["min_impedance"] == doctest::Approx(1e6));
+    // a floor for another node does not apply here; one for this node comes first
+    auto other = review(cascode(1.5, "rleak out vdd 200k\n") + control(saves({"m1", "m2", "m3", "m4"})),
+                        "--min-impedance elsewhere=1Mohm");
+    CHECK(with_code(other.report, "low-node-impedance").empty());
+    auto first = review(cascode(1.5, "rleak out vdd 200k\n") + control(saves({"m1", "m2", "m3", "m4"})),
+                        "--min-impedance 1Mohm --min-impedance out=10kohm");
+    CHECK(with_code(first.report, "low-node-impedance").empty());
 }
 
 TEST_CASE("body effect neglected: op data without gmb against a simulation that has it") {

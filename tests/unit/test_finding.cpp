@@ -92,7 +92,7 @@ TEST_CASE("one catalogue row per code, in reading order, names unique") {
 
 TEST_CASE("sorting: severity first, then the catalogue's reading order") {
     std::vector<Finding> f = {make_finding(FindingCode::body_effect, "m", "n", {}),
-                              make_finding(FindingCode::inspection_vs_linearised, "m", "n", {}),
+                              make_finding(FindingCode::inspection_vs_own, "m", "n", {}),
                               make_finding(FindingCode::ratio_error, "m", "n", {}),
                               make_finding(FindingCode::out_of_saturation, "m", "d", {}),
                               make_finding(FindingCode::low_intrinsic_gain, "m", "d", {})};
@@ -100,7 +100,7 @@ TEST_CASE("sorting: severity first, then the catalogue's reading order") {
     std::vector<std::string_view> order;
     for (const auto& x : f) order.push_back(to_string(x.code));
     // a warning after three infos was once the order; now every warning precedes every info
-    CHECK(order == std::vector<std::string_view>{"out-of-saturation", "ratio-error", "inspection-vs-linearised",
+    CHECK(order == std::vector<std::string_view>{"out-of-saturation", "ratio-error", "inspection-vs-own",
                                                  "low-intrinsic-gain", "body-effect"});
 }
 
@@ -121,7 +121,7 @@ TEST_CASE("every finding of the sample's review renders, with every value its te
         CHECK(std::regex_search(sentence, std::regex("[0-9]e[+-][0-9]")) == false);  // no exponents for people
     }
     CHECK(seen.count(FindingCode::out_of_saturation));
-    CHECK(seen.count(FindingCode::inspection_vs_linearised));
+    CHECK(seen.count(FindingCode::loaded_output));
     // Numbers as the table prints them: mn4's shortfall is 86.5 mV, not 0.0865 V.
     for (const Finding& f : tree.findings)
         if (f.code == FindingCode::out_of_saturation)

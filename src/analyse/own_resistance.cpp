@@ -94,12 +94,14 @@ public:
         std::vector<std::size_t> devices(members_.begin(), members_.end());
         for (std::size_t i : devices) own.devices.push_back(circuit_.devices()[i].name);
         std::vector<std::string> kept = {own.node};
+        for (const std::string& net : touched())
+            if (net != own.node && !is_held(net, output)) kept.push_back(net);
+        // Every other net of the devices is held: rails, feet, other outputs, outside gates.
         std::set<std::string> held;
-        for (const std::string& net : touched()) {
-            if (net == own.node) continue;
-            if (is_held(net, output)) held.insert(net);
-            else kept.push_back(net);
-        }
+        for (std::size_t i : devices)
+            for (const Terminal& t : circuit_.devices()[i].terminals) held.insert(to_lower(t.net));
+        for (const std::string& net : kept) held.erase(net);
+        held.erase("0");
         own.held.assign(held.begin(), held.end());
         SmallSignalNetwork network = build_device_network(circuit_, op, devices, kept);
         if (!network.problems.empty()) {

@@ -19,7 +19,8 @@ struct OwnResistance {
     std::string node;                // the output, lower case
     LinearisedImpedance value;       // resistance (and range); scope "mirror alone"; note when absent
     std::vector<std::string> devices;  // what was solved: the mirror's devices and its own bias elements
-    std::vector<std::string> held;     // the nets it touches that were held at their operating voltage
+    std::vector<std::string> held;     // the nets of those devices held at their operating voltage
+                                       // (ground, always held, is not listed)
 };
 
 // One per output of every mirror, mirror by mirror, output by output.

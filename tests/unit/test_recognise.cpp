@@ -85,7 +85,7 @@ const std::vector<std::pair<std::string, Expected>>& family_decks() {
         {"improved_wilson", {"improved-wilson", {1, 4}, "y", {{"out", {2, 3}, 1.0}}}},
         {"regulated_cascode", {"regulated-cascode", {1}, "ref", {{"out", {2, 4}, 1.0}}, {5}}},
         {"beta_helper", {"beta-helper", {1}, "x", {{"out", {2}, 2.0}}, {6}}},
-        {"stack", {"stack", {}, "", {{"out", {1, 2}, std::nullopt}}}},
+        {"stack", {"current-source", {}, "", {{"out", {1, 2}, std::nullopt}}}},
     };
     return decks;
 }
@@ -208,13 +208,13 @@ TEST_CASE("a follower driven by a signal is not a cascode on the mirror output b
     check_mirror(c, mirrors[0], "nmos", {"simple", {1}, "ref", {{"out", {2}, 1.0}}});
 }
 
-TEST_CASE("current sources that mirror nothing are stacks; an amplifier device is not") {
+TEST_CASE("transistors that mirror nothing but stand on a fixed gate voltage are current sources; an amplifier device is not") {
     Circuit c = read_deck("stacks");
     auto mirrors = find_mirrors(c);
     REQUIRE(mirrors.size() == 2);
-    check_mirror(c, mirrors[0], "pmos", {"stack", {}, "", {{"out1", {1}, std::nullopt}}});
-    check_mirror(c, mirrors[1], "nmos", {"stack", {}, "", {{"out3", {3}, std::nullopt}}});
-    CHECK(mirrors[0].id == "pmos-stack:m1");
+    check_mirror(c, mirrors[0], "pmos", {"current-source", {}, "", {{"out1", {1}, std::nullopt}}});
+    check_mirror(c, mirrors[1], "nmos", {"current-source", {}, "", {{"out3", {3}, std::nullopt}}});
+    CHECK(mirrors[0].id == "pmos-current-source:m1");
 }
 
 TEST_CASE("small access resistors inside one-transistor wrappers are read as wires") {

@@ -11,7 +11,6 @@
 // divider's designer allows for).
 #include "src/recognise/circuit_index.hpp"
 
-#include <algorithm>
 #include <deque>
 
 #include "src/recognise/wrapper_nets.hpp"
@@ -54,6 +53,7 @@ CircuitIndex::CircuitIndex(const Circuit& circuit)
       nets_(circuit.nets().size()),
       rails_(circuit.nets().size(), false),
       dividers_(circuit.nets().size(), false),
+      drain_kinds_(circuit.nets().size(), 0u),
       diode_kinds_(circuit.nets().size(), 0u) {
     map_terminals();
     for (std::size_t d = 0; d < circuit.devices().size(); ++d) index_device(d);
@@ -111,6 +111,7 @@ void CircuitIndex::add_transistor(std::size_t d, Kind kind, const char* drain, c
     nets_[t.drain].drains.push_back(index);
     nets_[t.control].controls.push_back(index);
     nets_[t.source].sources.push_back(index);
+    drain_kinds_[t.drain] |= 1u << static_cast<unsigned>(kind);
     if (t.diode()) diode_kinds_[t.control] |= 1u << static_cast<unsigned>(kind);
 }
 
@@ -210,8 +211,7 @@ std::optional<std::size_t> CircuitIndex::booster_of(std::size_t cascode) const {
 std::optional<std::size_t> CircuitIndex::stacked_booster_of(std::size_t cascode) const {
     const Transistor& c = transistors_[cascode];
     if (rails_[c.source] || ((diode_kinds_[c.source] >> static_cast<unsigned>(c.kind)) & 1u)) return std::nullopt;
-    const auto& below = nets_[c.source].drains;
-    bool stacked = std::any_of(below.begin(), below.end(), [&](std::size_t t) { return transistors_[t].kind == c.kind; });
+    const bool stacked = (drain_kinds_[c.source] >> static_cast<unsigned>(c.kind)) & 1u;
     return stacked ? booster_of(cascode) : std::nullopt;
 }
 

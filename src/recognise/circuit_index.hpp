@@ -110,6 +110,7 @@ private:
     std::vector<NetUse> nets_;
     std::vector<bool> rails_;
     std::vector<bool> dividers_;
+    std::vector<unsigned> drain_kinds_;  // per net, bit k: the drain (collector) of a transistor of Kind k
     std::vector<unsigned> diode_kinds_;  // per net, bit k: a diode-connected transistor of Kind k
 };
 

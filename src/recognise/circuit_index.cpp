@@ -6,6 +6,9 @@
 // Assumptions: a MOS device is a transistor when its model type is nmos or pmos, a bipolar
 // one when npn or pnp; anything else (JFETs, XSPICE devices) is ignored. A rail is ground
 // or a net reached from ground through voltage sources without an ac or transient part.
+// A divider is a net between rails through resistors alone: its voltage is fixed by the
+// supplies, which makes it a bias for a gate (a base draws current from it, which the
+// divider's designer allows for).
 #include "src/recognise/circuit_index.hpp"
 
 #include <deque>
@@ -49,10 +52,13 @@ CircuitIndex::CircuitIndex(const Circuit& circuit)
     : circuit_(circuit),
       nets_(circuit.nets().size()),
       rails_(circuit.nets().size(), false),
+      dividers_(circuit.nets().size(), false),
+      drain_kinds_(circuit.nets().size(), 0u),
       diode_kinds_(circuit.nets().size(), 0u) {
     map_terminals();
     for (std::size_t d = 0; d < circuit.devices().size(); ++d) index_device(d);
     find_rails();
+    find_dividers();
 }
 
 // Net indices of every terminal, from the circuit's own net lists (no name lookups).
@@ -105,6 +111,7 @@ void CircuitIndex::add_transistor(std::size_t d, Kind kind, const char* drain, c
     nets_[t.drain].drains.push_back(index);
     nets_[t.control].controls.push_back(index);
     nets_[t.source].sources.push_back(index);
+    drain_kinds_[t.drain] |= 1u << static_cast<unsigned>(kind);
     if (t.diode()) diode_kinds_[t.control] |= 1u << static_cast<unsigned>(kind);
 }
 
@@ -132,6 +139,22 @@ void CircuitIndex::find_rails() {
                 rails_[next] = true;
                 queue.push_back(next);
             }
+    }
+}
+
+void CircuitIndex::find_dividers() {
+    for (std::size_t n = 0; n < nets_.size(); ++n) {
+        const NetUse& u = nets_[n];
+        if (rails_[n] || u.resistors.size() < 2 || carriers(n) != u.resistors.size()) continue;
+        bool to_rails = true;
+        bool two_rails = false;
+        const std::size_t first = other_end(u.resistors.front(), n);
+        for (std::size_t r : u.resistors) {
+            const std::size_t far = other_end(r, n);
+            to_rails = to_rails && far != n && rails_[far];
+            two_rails = two_rails || far != first;
+        }
+        dividers_[n] = to_rails && two_rails;
     }
 }
 
@@ -175,7 +198,7 @@ std::optional<Step> CircuitIndex::step_up(std::size_t below) const {
 }
 
 bool CircuitIndex::is_bias(std::size_t net, Kind kind) const {
-    return rails_[net] || ((diode_kinds_[net] >> static_cast<unsigned>(kind)) & 1u);
+    return rails_[net] || dividers_[net] || ((diode_kinds_[net] >> static_cast<unsigned>(kind)) & 1u);
 }
 
 std::optional<std::size_t> CircuitIndex::booster_of(std::size_t cascode) const {
@@ -183,6 +206,35 @@ std::optional<std::size_t> CircuitIndex::booster_of(std::size_t cascode) const {
     for (std::size_t a : nets_[c.source].controls)
         if (a != cascode && transistors_[a].drain == c.control) return a;
     return std::nullopt;
+}
+
+std::optional<std::size_t> CircuitIndex::stacked_booster_of(std::size_t cascode) const {
+    const Transistor& c = transistors_[cascode];
+    if (rails_[c.source] || ((diode_kinds_[c.source] >> static_cast<unsigned>(c.kind)) & 1u)) return std::nullopt;
+    const bool stacked = (drain_kinds_[c.source] >> static_cast<unsigned>(c.kind)) & 1u;
+    return stacked ? booster_of(cascode) : std::nullopt;
+}
+
+// A fold node carries a handful of terminals; a wider net is a supply or a bus, and
+// scanning it from every device on it would make the pass quadratic.
+constexpr std::size_t max_fold_terminals = 8;
+
+std::optional<Step> CircuitIndex::fold_up(std::size_t below) const {
+    const Transistor& b = transistors_[below];
+    const NetUse& u = nets_[b.drain];
+    if (rails_[b.drain] || u.drains.size() + u.sources.size() > max_fold_terminals) return std::nullopt;
+    for (std::size_t t : u.drains)
+        if (t != below && transistors_[t].kind == b.kind) return std::nullopt;
+    std::optional<std::size_t> above;
+    for (std::size_t t : u.sources) {
+        if (transistors_[t].kind != b.kind) continue;
+        if (above) return std::nullopt;
+        above = t;
+    }
+    if (!above || *above == below) return std::nullopt;
+    const Transistor& a = transistors_[*above];
+    if (a.diode() || is_supply(a.drain) || !(is_bias(a.control, a.kind) || booster_of(*above))) return std::nullopt;
+    return Step{*above, std::nullopt};
 }
 
 double CircuitIndex::size(std::size_t t) const {

@@ -63,16 +63,32 @@ public:
 
     // Ground, or a net held to ground through quiet (no ac, no transient) voltage sources.
     bool is_rail(std::size_t net) const { return rails_[net]; }
-    // A rail, or a net holding the gate (base) of a diode-connected transistor of `kind`:
-    // a net at AC ground for a cascode's gate.
+    // A supply: a rail that carries more than one other terminal besides the voltage source
+    // holding it (a rail that holds one output as a probe is not a supply).
+    bool is_supply(std::size_t net) const { return rails_[net] && carriers(net) > 2; }
+    // A resistor divider: a net that carries only resistors (two or more) whose far ends are
+    // rails at two or more different nets, besides gates, bases and capacitors.
+    bool is_divider(std::size_t net) const { return dividers_[net]; }
+    // A fixed voltage, at AC ground for a cascode's gate or a current source's: a rail, a
+    // divider, or a net holding the gate (base) of a diode-connected transistor of `kind`.
     bool is_bias(std::size_t net, Kind kind) const;
     // A transistor whose gate (base) is on the source (emitter) net of `cascode` and whose
     // drain (collector) drives the gate (base) of `cascode`: a regulated cascode's booster.
     std::optional<std::size_t> booster_of(std::size_t cascode) const;
+    // The booster of `cascode` when `cascode` is stacked on a device of its kind (whose drain
+    // is on the cascode's source net) and that net holds no diode of its kind, which would
+    // make the pair the output half of a Wilson mirror.
+    std::optional<std::size_t> stacked_booster_of(std::size_t cascode) const;
     Foot foot(std::size_t t) const;
     // The transistor of the same kind stacked on `below`: the drain net of `below` carries
     // nothing but that drain and the next source (directly or through one resistor).
     std::optional<Step> step_up(std::size_t below) const;
+    // The transistor of the same kind stacked on `below` where the drain net of `below` also
+    // carries another branch (a folded cascode's fold node: the input pair's drain, a
+    // resistor): the one device of that kind whose source is there, neither diode-connected
+    // nor with its drain on a supply, gated by a bias net or a booster; `below` the only
+    // drain of that kind there.
+    std::optional<Step> fold_up(std::size_t below) const;
     // m·nf·W/L for MOS, area·m for bipolar (ngspice defaults W = L = 100 µm).
     double size(std::size_t t) const;
 
@@ -80,6 +96,7 @@ private:
     void index_device(std::size_t device);
     void add_transistor(std::size_t device, Kind kind, const char* d, const char* g, const char* s);
     void find_rails();
+    void find_dividers();
     void map_terminals();
     std::size_t net_of(std::size_t device, std::size_t terminal) const;
     std::size_t carriers(std::size_t net) const;
@@ -92,6 +109,8 @@ private:
     std::vector<Transistor> transistors_;
     std::vector<NetUse> nets_;
     std::vector<bool> rails_;
+    std::vector<bool> dividers_;
+    std::vector<unsigned> drain_kinds_;  // per net, bit k: the drain (collector) of a transistor of Kind k
     std::vector<unsigned> diode_kinds_;  // per net, bit k: a diode-connected transistor of Kind k
 };
 

@@ -1,31 +1,34 @@
-// Recognition pass: finds every current mirror and every transistor stack of a flattened
+// Recognition pass: finds every current mirror and every current source of a flattened
 // circuit from its connections alone (no operating point), so that the analysis can
 // recompute each output by inspection.
 //
 // Algorithm: index the circuit once (transistors by the nets of their drain, gate and
-// source; rails), then for each net taken as a gate (base) net, find the reference that
-// drives it (reference_shapes.cpp: Wilson, stacked diodes, wide-swing branch, beta helper)
-// and the outputs it mirrors into, each climbed up its stack and given a family
-// (mirror_groups.cpp); finally, report the stacks left over that are biased like current
-// sources. Every step looks only at the nets next to a device, so the pass is linear in
-// the circuit's size. Families follow DESIGN.md; the rule for each is written where it is
-// applied.
+// source; rails; resistor dividers), then mark the loads of regulated-cascode boosters so
+// that no mirror takes them for outputs; for each net taken as a gate (base) net, find the
+// reference that drives it (reference_shapes.cpp: Wilson, stacked diodes, wide-swing
+// branch, beta helper) and the outputs it mirrors into, each climbed up its stack and given
+// a family (mirror_groups.cpp); finally, report as current sources the transistors left
+// over that stand on a rail with their gate on a fixed voltage. Every step looks only at
+// the nets next to a device, so the pass is linear in the circuit's size. Families follow
+// DESIGN.md; the rule for each is written where it is applied.
 //
 // Assumptions: the circuit is flat (subcircuits, including transistors wrapped one per
 // subcircuit, are already expanded; nets are nets). PMOS and PNP mirrors are the mirror
 // images of NMOS and NPN, with no special case. Each transistor belongs to at most one
-// mirror or stack.
+// mirror or current source.
 //
 // MOS drain and source are taken as written on the element line (the source towards the
 // rail). Rails are ground and nets held to it by voltage sources without an ac or transient
-// part; a bias net is a rail or a net with a diode-connected transistor of the same kind.
+// part; a fixed-voltage (bias) net is a rail, a net with a diode-connected transistor of
+// the same kind, or a resistor divider between rails.
 //
 // Left out: mirrors whose devices are joined by resistors other than source or emitter
 // degeneration (such as small parasitic resistors in a wrapper subcircuit), devices wired
 // in parallel as one (a parallel reference device is ignored, a parallel output is a
 // separate output on the same node), further outputs on a Wilson's diode (reported as
-// stacks), and stacks biased by resistor dividers or by anything but a diode-connected
-// device or a quiet voltage source (a DC-only amplifier input is taken for a bias).
+// current sources), and gates held by anything but a diode-connected device, a quiet
+// voltage source or a divider (a DC-only amplifier input is taken for a bias line, which
+// matters only for a device standing on a rail: an input pair stands on its tail).
 #include "src/recognise/find_mirrors.hpp"
 
 #include "src/recognise/circuit_index.hpp"
@@ -68,6 +71,7 @@ Mirror describe(const CircuitIndex& ix, const FoundMirror& found) {
     }
     for (const auto& stack : found.outputs) m.outputs.push_back(describe_output(ix, found, stack));
     m.helpers = device_indices(ix, found.helpers);
+    m.helper_loads = device_indices(ix, found.helper_loads);
     m.id = mirror_family_label(m) + ":" + ix.circuit().devices()[m.outputs.front().devices.back()].name;
     return m;
 }
@@ -92,6 +96,7 @@ std::string_view to_string(Family family) {
         case Family::improved_wilson: return "improved-wilson";
         case Family::regulated_cascode: return "regulated-cascode";
         case Family::beta_helper: return "beta-helper";
+        case Family::current_source: return "current-source";
         case Family::stack: return "stack";
     }
     return "stack";
@@ -104,9 +109,10 @@ std::string mirror_family_label(const Mirror& mirror) {
 std::vector<Mirror> find_mirrors(const Circuit& circuit) {
     const CircuitIndex index(circuit);
     recognise::Claims claims(index.transistors().size(), false);
-    std::vector<FoundMirror> found = recognise::find_mirror_groups(index, claims);
-    std::vector<FoundMirror> stacks = recognise::find_stacks(index, claims);
-    found.insert(found.end(), stacks.begin(), stacks.end());
+    const recognise::BoosterLoads loads = recognise::find_booster_loads(index, claims);
+    std::vector<FoundMirror> found = recognise::find_mirror_groups(index, loads, claims);
+    std::vector<FoundMirror> sources = recognise::find_current_sources(index, claims);
+    found.insert(found.end(), sources.begin(), sources.end());
     return describe_all(index, found);
 }
 

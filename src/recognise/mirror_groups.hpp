@@ -4,6 +4,7 @@
 
 #include <cstddef>
 #include <optional>
+#include <unordered_map>
 #include <vector>
 
 #include "src/recognise/circuit_index.hpp"
@@ -18,13 +19,23 @@ struct FoundMirror {
     std::optional<Reference> reference;      // none for a stack
     std::vector<std::vector<Step>> outputs;  // each bottom to top; step resistor = the one below
     std::vector<std::size_t> helpers;        // transistors
+    std::vector<std::size_t> helper_loads;   // transistors: the loads of a booster
 };
 
-// The mirrors on every gate (base) net, one per reference and family; claims their devices.
-std::vector<FoundMirror> find_mirror_groups(const CircuitIndex& index, Claims& claims);
+// Per regulated-cascode booster (a transistor), the transistors on its drain net: its load.
+using BoosterLoads = std::unordered_map<std::size_t, std::vector<std::size_t>>;
 
-// Stacks of still unclaimed transistors whose bottom sits on a rail and whose gate is biased
-// by a diode-connected device of the same kind or held by a quiet voltage source.
-std::vector<FoundMirror> find_stacks(const CircuitIndex& index, Claims& claims);
+// The loads of every booster of a cascode stacked on a device of its kind (see
+// CircuitIndex::stacked_booster_of); claims them, so that no mirror takes them for outputs.
+BoosterLoads find_booster_loads(const CircuitIndex& index, Claims& claims);
+
+// The mirrors on every gate (base) net, one per reference and family; claims their devices.
+// A booster's loads go with its regulated cascode; those of boosters that end up in no
+// mirror are released.
+std::vector<FoundMirror> find_mirror_groups(const CircuitIndex& index, BoosterLoads loads, Claims& claims);
+
+// Current sources: still unclaimed transistors whose foot is a rail and whose gate is on a
+// fixed voltage (CircuitIndex::is_bias) other than that foot, with the cascodes above them.
+std::vector<FoundMirror> find_current_sources(const CircuitIndex& index, Claims& claims);
 
 }  // namespace mirrorcheck::recognise

@@ -7,7 +7,7 @@
 //   M4 stacked on M1. The reference is M1 (and M4); M2 and M3 form the output.
 // - Diode stack: a diode-connected device on G, any diode-connected devices stacked
 //   directly on it (the standard cascode reference), and then any cascode devices (gate on
-//   a bias net) stacked on those, through which the reference current enters (a
+//   a bias net, drain not on a supply) stacked on those, through which the reference current enters (a
 //   low-voltage cascode reference whose bottom device is a diode).
 // - Wide-swing: a device gated by G whose stack (through exclusive nets) tops out at a
 //   drain on G: the bottom gate is tied to the top of the cascoded reference branch.
@@ -91,7 +91,7 @@ Reference diode_stack(const CircuitIndex& ix, std::size_t diode, const Claims& c
         auto step = ix.step_up(ref.devices.back());
         if (!step || claims[step->transistor]) break;
         const Transistor& cascode = ix.transistor(step->transistor);
-        if (cascode.diode() || !ix.is_bias(cascode.control, cascode.kind)) break;
+        if (cascode.diode() || ix.is_supply(cascode.drain) || !ix.is_bias(cascode.control, cascode.kind)) break;
         ref.devices.push_back(step->transistor);
         ref.degeneration.push_back(step->resistor);
     }

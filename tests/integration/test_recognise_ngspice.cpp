@@ -55,7 +55,7 @@ std::map<std::string, double> printed(const std::string& output) {
     return values;
 }
 
-bool ratio_follows_design(Family f) { return f != Family::widlar && f != Family::stack; }
+bool ratio_follows_design(Family f) { return f != Family::widlar && f != Family::current_source; }
 
 // Cascoded outputs and the improved Wilson hold the bottom devices at equal drain voltages.
 double ratio_tolerance(Family f) {

@@ -5,6 +5,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <filesystem>
 #include <map>
 #include <memory>
 #include <optional>
@@ -13,6 +14,7 @@
 
 #include "src/model/circuit_build.hpp"
 #include "support/mirror_blocks.hpp"
+#include "support/ngspice_run.hpp"
 #include "src/recognise/find_mirrors.hpp"
 
 using mirrorcheck::Circuit;
@@ -21,6 +23,18 @@ using mirrorcheck::Mirror;
 using mirrorcheck::find_mirrors;
 
 namespace {
+
+// A deck of the test's own: the models, then `body`.
+Circuit read_text_deck(const std::string& body) {
+    auto dir = mirrorcheck::test::make_temp_dir("mc-recognise-unit");
+    mirrorcheck::test::write_text(dir / "deck.cir",
+                                  "* unit deck\n.model nch nmos (level=1 vto=0.5 kp=200u)\n"
+                                  ".model pch pmos (level=1 vto=-0.5 kp=80u)\n.model qn npn (bf=150)\n" +
+                                      body + ".end\n");
+    Circuit c = mirrorcheck::read_circuit(dir / "deck.cir");
+    std::filesystem::remove_all(dir);
+    return c;
+}
 
 Circuit read_deck(const std::string& name) {
     return mirrorcheck::read_circuit(std::string(MIRRORCHECK_TEST_DATA) + "/recognise/" + name + ".cir");
@@ -85,7 +99,7 @@ const std::vector<std::pair<std::string, Expected>>& family_decks() {
         {"improved_wilson", {"improved-wilson", {1, 4}, "y", {{"out", {2, 3}, 1.0}}}},
         {"regulated_cascode", {"regulated-cascode", {1}, "ref", {{"out", {2, 4}, 1.0}}, {5}}},
         {"beta_helper", {"beta-helper", {1}, "x", {{"out", {2}, 2.0}}, {6}}},
-        {"stack", {"stack", {}, "", {{"out", {1, 2}, std::nullopt}}}},
+        {"stack", {"current-source", {}, "", {{"out", {1, 2}, std::nullopt}}}},
     };
     return decks;
 }
@@ -208,13 +222,13 @@ TEST_CASE("a follower driven by a signal is not a cascode on the mirror output b
     check_mirror(c, mirrors[0], "nmos", {"simple", {1}, "ref", {{"out", {2}, 1.0}}});
 }
 
-TEST_CASE("current sources that mirror nothing are stacks; an amplifier device is not") {
+TEST_CASE("transistors that mirror nothing but stand on a fixed gate voltage are current sources; an amplifier device is not") {
     Circuit c = read_deck("stacks");
     auto mirrors = find_mirrors(c);
     REQUIRE(mirrors.size() == 2);
-    check_mirror(c, mirrors[0], "pmos", {"stack", {}, "", {{"out1", {1}, std::nullopt}}});
-    check_mirror(c, mirrors[1], "nmos", {"stack", {}, "", {{"out3", {3}, std::nullopt}}});
-    CHECK(mirrors[0].id == "pmos-stack:m1");
+    check_mirror(c, mirrors[0], "pmos", {"current-source", {}, "", {{"out1", {1}, std::nullopt}}});
+    check_mirror(c, mirrors[1], "nmos", {"current-source", {}, "", {{"out3", {3}, std::nullopt}}});
+    CHECK(mirrors[0].id == "pmos-current-source:m1");
 }
 
 TEST_CASE("small access resistors inside one-transistor wrappers are read as wires") {
@@ -252,10 +266,87 @@ TEST_CASE("circuits without mirrors give none") {
     }
 }
 
+TEST_CASE("a device from a mirror output to the supply is a follower even with its gate on a DC source") {
+    // m3's gate is held by a quiet source (a bias by the rules), but its drain is the supply.
+    Circuit c = read_text_deck(
+        "vdd vdd 0 dc 3.3\niref vdd ref 20u\nvin in 0 dc 2\n"
+        "m1 ref ref 0 0 nch w=10u l=1u\nm2 out ref 0 0 nch w=10u l=1u\nm3 vdd in out 0 nch w=10u l=1u\n");
+    auto mirrors = find_mirrors(c);
+    REQUIRE(mirrors.size() == 1);
+    check_mirror(c, mirrors[0], "nmos", {"simple", {1}, "ref", {{"out", {2}, 1.0}}});
+}
+
+TEST_CASE("a cascode whose drain is held by its own probe source is still a cascode") {
+    // vout holds only out: a rail, but not a supply.
+    Circuit c = read_text_deck(
+        "vdd vdd 0 dc 3.3\nvb b 0 dc 1.2\nvout out 0 dc 2\nr1 vdd g 100k\nr2 g 0 30k\n"
+        "m1 mid g 0 0 nch w=10u l=1u\nm2 out b mid 0 nch w=10u l=1u\n");
+    auto mirrors = find_mirrors(c);
+    REQUIRE(mirrors.size() == 1);
+    check_mirror(c, mirrors[0], "nmos", {"current-source", {}, "", {{"out", {1, 2}, std::nullopt}}});
+}
+
+TEST_CASE("a cascode on a bias is stacked through a fold node that carries another branch; a pair is not") {
+    // x carries m1's drain, the input device m5 and the cascode m2; tail carries two sources.
+    Circuit c = read_text_deck(
+        "vdd vdd 0 dc 3.3\nvbp vbp 0 dc 2.5\nvcp vcp 0 dc 1.8\nvin in 0 dc 1.5 ac 1\n"
+        "m1 x vbp vdd vdd pch w=10u l=1u\nm2 a vcp x vdd pch w=10u l=1u\nm5 x in t 0 nch w=10u l=1u\n"
+        "r5 t 0 20k\nra a 0 50k\n"
+        "vb nb 0 dc 0.8\nm6 tail nb 0 0 nch w=10u l=1u\nm7 d7 in tail 0 nch w=10u l=1u\n"
+        "m8 d8 in tail 0 nch w=10u l=1u\nr7 vdd d7 10k\nr8 vdd d8 10k\n");
+    auto mirrors = find_mirrors(c);
+    REQUIRE(mirrors.size() == 2);
+    check_mirror(c, mirrors[0], "pmos", {"current-source", {}, "", {{"a", {1, 2}, std::nullopt}}});
+    check_mirror(c, mirrors[1], "nmos", {"current-source", {}, "", {{"tail", {6}, std::nullopt}}});
+}
+
+TEST_CASE("a divider between two rails is a fixed gate voltage; a resistor to a signal net is not") {
+    Circuit c = read_text_deck(
+        "vcc vcc 0 dc 5\nr1 vcc b 30k\nr2 b 0 10k\nq1 o1 b e1 qn\nre e1 0 1k\nro1 vcc o1 5k\n"
+        "vin in 0 dc 1 ac 1\nr3 in b2 10k\nr4 b2 0 10k\nq2 o2 b2 0 qn\nro2 vcc o2 5k\n"
+        "r5 vcc b3 10k\nr6 b3 vcc 10k\nq3 o3 b3 0 qn\nro3 vcc o3 5k\n");
+    auto mirrors = find_mirrors(c);
+    REQUIRE(mirrors.size() == 1);
+    check_mirror(c, mirrors[0], "npn", {"current-source", {}, "", {{"o1", {1}, std::nullopt}}});
+    REQUIRE(mirrors[0].outputs[0].degeneration[0].has_value());
+    CHECK(c.devices()[*mirrors[0].outputs[0].degeneration[0]].name == "re");
+}
+
+TEST_CASE("a booster's load goes with its regulated cascode, not to the mirror on its gate line") {
+    // mp6 shares the PMOS diode mp7's gate line with the output mp8, and comes first in the
+    // netlist's nets: it is still the booster's load.
+    Circuit c = mirrorcheck::read_circuit(std::string(MIRRORCHECK_TEST_DATA) + "/amplifiers/regulated_cascode.cir");
+    auto mirrors = find_mirrors(c);
+    REQUIRE(mirrors.size() == 2);
+    const Mirror& pmos = mirrors[0].kind == "pmos" ? mirrors[0] : mirrors[1];
+    const Mirror& reg = mirrors[0].kind == "pmos" ? mirrors[1] : mirrors[0];
+    CHECK(mirror_family_label(reg) == "nmos-regulated-cascode");
+    CHECK(names(c, reg.helpers) == std::vector<std::string>{"mn5"});
+    CHECK(names(c, reg.helper_loads) == std::vector<std::string>{"mp6"});
+    REQUIRE(pmos.outputs.size() == 1);
+    CHECK(names(c, pmos.outputs[0].devices) == std::vector<std::string>{"mp8"});
+}
+
+TEST_CASE("the device feeding a Wilson's input is no booster load: a Wilson is not a regulated cascode") {
+    // m1 (gated by the diode line g) drives m3's gate like a booster; its drain y is fed by
+    // the PMOS mirror output mp2, which stays a mirror output.
+    Circuit c = read_text_deck(
+        "vdd vdd 0 dc 3.3\nrp pg 0 130k\nmp1 pg pg vdd vdd pch w=10u l=1u\nmp2 y pg vdd vdd pch w=10u l=1u\n"
+        "m1 y g 0 0 nch w=10u l=1u\nm2 g g 0 0 nch w=10u l=1u\nm3 out y g 0 nch w=10u l=1u\nvout out 0 dc 2\n");
+    auto mirrors = find_mirrors(c);
+    REQUIRE(mirrors.size() == 2);
+    std::vector<std::string> labels;
+    for (const auto& m : mirrors) labels.push_back(m.id);
+    std::sort(labels.begin(), labels.end());
+    CHECK(labels == std::vector<std::string>{"nmos-wilson:m3", "pmos-simple:mp2"});
+    for (const auto& m : mirrors) CHECK(m.helper_loads.empty());
+}
+
 TEST_CASE("family names") {
     CHECK(mirrorcheck::to_string(Family::wide_swing_cascode) == "wide-swing-cascode");
     CHECK(mirrorcheck::to_string(Family::improved_wilson) == "improved-wilson");
     CHECK(mirrorcheck::to_string(Family::beta_helper) == "beta-helper");
+    CHECK(mirrorcheck::to_string(Family::current_source) == "current-source");
     Mirror m;
     m.kind = "npn";
     m.family = Family::wilson;

@@ -7,8 +7,8 @@
 // What the mirror alone is, for one output:
 //   - its devices: the reference side, every output stack, the helpers (a regulated
 //     cascode's booster, a beta helper), their source and emitter resistors;
-//   - its own bias elements: the load of a helper (the devices whose drain or collector
-//     shares the helper's drain net: a booster's gain is gm·(ro ∥ its load)), and the
+//   - its own bias elements: the load of a booster (Mirror::helper_loads: its gain is
+//     gm·(ro ∥ its load)), and the
 //     resistors that hold a gate or base net of the mirror to a rail (a divider on the base
 //     of a bipolar current source sets the base's source resistance);
 //   - the reference node fed by an ideal current at its operating value: in small signal,
@@ -42,6 +42,7 @@ namespace {
 constexpr const char* mirror_alone = "mirror alone";
 
 bool is_transistor(const Device& d) { return d.kind == DeviceKind::mosfet || d.kind == DeviceKind::bjt; }
+
 
 const std::string* net_of(const Device& d, std::initializer_list<std::string_view> roles) {
     for (std::string_view role : roles)
@@ -128,21 +129,9 @@ private:
         if (device < circuit_.devices().size()) members_.insert(device);
     }
 
-    bool is_member(std::size_t device) const { return members_.count(device) > 0; }
-
-    // The devices whose drain or collector shares a helper's: the helper's load.
+    // A booster's load (recognition names it): the booster's gain is gm·(ro ∥ its load).
     void add_helper_loads() {
-        for (std::size_t h : mirror_.helpers) {
-            const std::string* drain = net_of(circuit_.devices()[h], {"d", "c"});
-            if (!drain || rails_.count(to_lower(*drain))) continue;
-            const Net* net = circuit_.find_net(*drain);
-            if (!net) continue;
-            for (const TerminalRef& t : net->terminals) {
-                const Device& d = circuit_.devices()[t.device];
-                const std::string& role = d.terminals[t.terminal].role;
-                if (is_transistor(d) && (role == "d" || role == "c")) add(t.device);
-            }
-        }
+        for (std::size_t i : mirror_.helper_loads) add(i);
     }
 
     // Resistors from a gate or base net of the mirror to a rail, except at the reference

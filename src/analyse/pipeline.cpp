@@ -26,6 +26,7 @@ std::vector<std::string> transistors_of(const Circuit& circuit, const std::vecto
     for (const auto& m : mirrors) {
         for (std::size_t i : m.reference) add(i);
         for (std::size_t i : m.helpers) add(i);
+        for (std::size_t i : m.helper_loads) add(i);
         for (const auto& o : m.outputs)
             for (std::size_t i : o.devices) add(i);
     }

@@ -27,7 +27,7 @@ int run_list(const ListOptions& o) {
 
 void add_list_command(CLI::App& app, int& status) {
     auto options = std::make_shared<ListOptions>();
-    CLI::App* cmd = app.add_subcommand("list", "List the current mirrors and transistor stacks of a netlist");
+    CLI::App* cmd = app.add_subcommand("list", "List the current mirrors and current sources of a netlist");
     cmd->footer(
         "Reads the netlist only (no simulation results): each mirror's family, reference\n"
         "devices and node, and each output's devices from the rail up, with the design\n"

@@ -1,4 +1,4 @@
-// `mirrorcheck list NETLIST`: the mirrors and stacks found, with no simulation data.
+// `mirrorcheck list NETLIST`: the mirrors and current sources found, with no simulation data.
 #pragma once
 
 #include <CLI/CLI.hpp>

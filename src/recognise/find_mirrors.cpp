@@ -97,9 +97,8 @@ std::string_view to_string(Family family) {
         case Family::regulated_cascode: return "regulated-cascode";
         case Family::beta_helper: return "beta-helper";
         case Family::current_source: return "current-source";
-        case Family::stack: return "stack";
     }
-    return "stack";
+    return "current-source";
 }
 
 std::string mirror_family_label(const Mirror& mirror) {

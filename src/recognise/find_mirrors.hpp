@@ -1,4 +1,4 @@
-// Recognition of current mirrors and transistor stacks in a flattened circuit, from the
+// Recognition of current mirrors and current sources in a flattened circuit, from the
 // netlist alone (no operating point). The rules are described in find_mirrors.cpp.
 #pragma once
 
@@ -14,9 +14,8 @@ namespace mirrorcheck {
 
 // The topology of a mirror. `current_source`: a transistor (with the cascodes stacked on
 // it) biased from a fixed voltage that mirrors no reference: a bias line, a resistor
-// divider, the gate (base) line of a bias loop on another rail. `stack`: a transistor stack
-// that matches no family; find_mirrors reports such stacks as current sources now, and the
-// analysis treats both alike (no reference, no ratio).
+// divider, the gate (base) line of a bias loop on another rail; it has no reference and no
+// ratio.
 enum class Family {
     simple,
     degenerated,
@@ -28,11 +27,10 @@ enum class Family {
     regulated_cascode,
     beta_helper,
     current_source,
-    stack,
 };
 
 // "simple", "degenerated", "widlar", "cascode", "wide-swing-cascode", "wilson",
-// "improved-wilson", "regulated-cascode", "beta-helper", "current-source", "stack".
+// "improved-wilson", "regulated-cascode", "beta-helper", "current-source".
 std::string_view to_string(Family family);
 
 // One output branch: the stack of transistors from the rail side up to the output node.

@@ -1,4 +1,4 @@
-// Private to src/recognise: mirrors and stacks found, in transistor indices, before they
+// Private to src/recognise: mirrors and current sources found, in transistor indices, before they
 // are described with device indices and names.
 #pragma once
 

@@ -29,10 +29,10 @@ std::string ratio_text(const std::optional<double>& ratio) {
 }  // namespace
 
 std::string write_mirror_table(const Circuit& circuit, const std::vector<Mirror>& mirrors) {
-    std::size_t stacks = 0;
-    for (const auto& m : mirrors) stacks += m.family == Family::stack;
-    std::string out = fmt::format("{} mirror{} and {} stack{} found\n", mirrors.size() - stacks,
-                                  mirrors.size() - stacks == 1 ? "" : "s", stacks, stacks == 1 ? "" : "s");
+    std::size_t sources = 0;
+    for (const auto& m : mirrors) sources += m.family == Family::current_source;
+    std::string out = fmt::format("{} mirror{} and {} current source{} found\n", mirrors.size() - sources,
+                                  mirrors.size() - sources == 1 ? "" : "s", sources, sources == 1 ? "" : "s");
     auto it = std::back_inserter(out);
     for (const auto& m : mirrors) {
         fmt::format_to(it, "\n{}\n", m.id);

@@ -1,4 +1,4 @@
-// Back end for `list`: the mirrors and stacks found in a circuit, without simulation data.
+// Back end for `list`: the mirrors and current sources found in a circuit, without simulation data.
 #pragma once
 
 #include <string>

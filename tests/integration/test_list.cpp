@@ -54,7 +54,7 @@ TEST_CASE("a differential pair holds no mirror") {
     std::size_t mirrors = 0;
     const auto report = nlohmann::json::parse(r.out);  // named: a temporary would die before the loop
     for (const auto& m : report["mirrors"])
-        mirrors += m["family"].get<std::string>().find("stack") == std::string::npos;
+        mirrors += m["family"].get<std::string>().find("current-source") == std::string::npos;
     CHECK(mirrors == 0);
 }
 

@@ -127,8 +127,8 @@ struct HandMade {
         simple.reference_node = "ref";
         simple.outputs = {{"out1", {m2}, {std::nullopt}, 1.0}, {"out2", {m3}, {std::nullopt}, 1.0}};
         Mirror cascode;
-        cascode.id = "nmos-stack:m6";
-        cascode.family = Family::stack;
+        cascode.id = "nmos-current-source:m6";
+        cascode.family = Family::current_source;
         cascode.kind = "nmos";
         cascode.outputs = {{"out3", {m5, m6}, {std::nullopt, std::nullopt}, std::nullopt}};
         mirrors = {simple, cascode};

@@ -101,7 +101,8 @@ ReviewTree run_review(const Circuit& circuit, const OpPoint& given_op, const std
     const std::vector<std::string> no_gmb = assume_missing_gmb_zero(op);
     const std::vector<Mirror> mirrors = find_mirrors(circuit);
     require_transistor_quantities(op, circuit, transistors_of(circuit, mirrors));
-    const InspectionResult inspection = inspect_mirrors(circuit, op, mirrors, settings.inspect);
+    const DesignerNames names = find_designer_names(circuit, mirrors);
+    const InspectionResult inspection = inspect_mirrors(circuit, op, mirrors, settings.inspect, names);
     const LinearisedSolve linearised =
         compute_linearised_impedances(circuit, op, linearise_targets(mirrors), ac_frequencies(plots));
     const std::vector<SimulatedImpedance> simulated =
@@ -111,7 +112,7 @@ ReviewTree run_review(const Circuit& circuit, const OpPoint& given_op, const std
         reconcile_resistances(circuit, mirrors, inspection, linearised.outputs, simulated, reconcile);
 
     ReviewParts parts{circuit, op, mirrors, inspection, linearised.outputs, linearised.notes, simulated, reconciliation,
-                      inspection.findings, {}, inputs, thresholds_of(settings), find_designer_names(circuit, mirrors)};
+                      inspection.findings, {}, inputs, thresholds_of(settings), names};
     if (!no_gmb.empty()) {
         std::string names;
         for (std::size_t k = 0; k < no_gmb.size() && k < 6; ++k)

@@ -251,6 +251,8 @@ TEST_CASE("run on the sky130 sample: the expected JSON, valid, and its isink Rou
         for (const auto& o : m["outputs"])
             if (o["node"] == "isink") {
                 CHECK(o["rout"]["probe"] == "v3");  // the deck's own source holding the node
+                // the cascode's reflection formula names the schematic's X instances
+                CHECK(o["rout"]["formula"] == "ro(xm10) + (1 + (gm+gmb)(xm10)·ro(xm10))·ro(xm9)");
                 if (o["rout"]["simulated"].is_number()) simulated = o["rout"]["simulated"].get<double>();
             }
     REQUIRE_MESSAGE(simulated, "no simulated Rout at isink");

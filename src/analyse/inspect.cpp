@@ -205,10 +205,10 @@ void unbounded_when_ro_infinite(RoutEstimate& e, const std::vector<RoutLevel>& l
 }
 
 OutputInspection inspect_output(const Circuit& circuit, const OpPoint& op, const Mirror& mirror,
-                                const MirrorOutput& output, const InspectOptions& options) {
+                                const MirrorOutput& output, const InspectOptions& options, const DesignerNames& names) {
     OutputInspection o;
     o.node = output.node;
-    auto rout = inspect_detail::compute_rout(circuit, op, mirror, output);
+    auto rout = inspect_detail::compute_rout(circuit, op, mirror, output, names);
     o.levels = std::move(rout.levels);
     o.reflection = std::move(rout.reflection);
     o.family = std::move(rout.family);
@@ -328,7 +328,7 @@ DeviceRegion classify_region(const DeviceOp& op, const InspectOptions& options) 
 }
 
 InspectionResult inspect_mirrors(const Circuit& circuit, const OpPoint& op, const std::vector<Mirror>& mirrors,
-                                 const InspectOptions& options) {
+                                 const InspectOptions& options, const DesignerNames& names) {
     require_transistor_quantities(op, circuit, transistor_names(circuit, mirrors));
     InspectionResult result;
     for (const Mirror& mirror : mirrors) {
@@ -336,7 +336,7 @@ InspectionResult inspect_mirrors(const Circuit& circuit, const OpPoint& op, cons
         m.mirror = mirror.id;
         m.reference = classify_all(circuit, op, mirror.reference, options);
         for (const MirrorOutput& output : mirror.outputs)
-            m.outputs.push_back(inspect_output(circuit, op, mirror, output, options));
+            m.outputs.push_back(inspect_output(circuit, op, mirror, output, options, names));
         result.mirrors.push_back(std::move(m));
     }
     result.findings = collect_findings(result, options);

@@ -13,6 +13,7 @@
 #include "src/analyse/finding.hpp"
 #include "src/model/circuit.hpp"
 #include "src/model/op_point.hpp"
+#include "src/analyse/designer_names.hpp"
 #include "src/recognise/find_mirrors.hpp"
 
 namespace mirrorcheck {
@@ -111,9 +112,10 @@ struct InspectionResult {
     std::vector<Finding> findings;          // errors first, then warnings, then info
 };
 
-// Inspects every mirror. Throws InputError "op.missing-parameters" when the op lacks a
-// quantity of one of the mirrors' transistors.
+// Inspects every mirror; the formulas name devices as `names` does (the designer's names,
+// find_designer_names; without them, by instance path). Throws InputError
+// "op.missing-parameters" when the op lacks a quantity of one of the mirrors' transistors.
 InspectionResult inspect_mirrors(const Circuit& circuit, const OpPoint& op, const std::vector<Mirror>& mirrors,
-                                 const InspectOptions& options);
+                                 const InspectOptions& options, const DesignerNames& names = {});
 
 }  // namespace mirrorcheck

@@ -44,6 +44,13 @@ namespace {
 
 bool is_bjt(const Device& d) { return d.kind == DeviceKind::bjt; }
 
+// A device as the formulas name it: the designer's name (`xm2` for a process kit's wrapped
+// transistor), else its instance path as written (`x1.m2`).
+std::string shown(const DesignerNames& names, const Device& d) {
+    auto it = names.find(d.name);
+    return it == names.end() ? d.instance_path() : it->second;
+}
+
 std::string net_of(const Device& d, std::string_view role) {
     const Terminal* t = d.terminal(role);
     return t ? t->net : std::string();
@@ -92,8 +99,8 @@ RoutLevel reflect_level(const OpPoint& op, const Device& d, double resistor, dou
     return l;
 }
 
-std::string level_formula(const Device& d, const std::string& rs_text, bool has_rb) {
-    const std::string n = d.instance_path();
+std::string level_formula(const Device& d, const std::string& rs_text, bool has_rb, const DesignerNames& names) {
+    const std::string n = shown(names, d);
     if (rs_text.empty()) return fmt::format("ro({})", n);
     if (!is_bjt(d)) return fmt::format("ro({0}) + (1 + (gm+gmb)({0})·ro({0}))·{1}", n, factor(rs_text));
     if (!has_rb) return fmt::format("ro({0}) + (1 + gm({0})·ro({0}))·({1} || rpi({0}))", n, factor(rs_text));
@@ -102,7 +109,8 @@ std::string level_formula(const Device& d, const std::string& rs_text, bool has_
 }
 
 RoutEstimate reflection_estimate(const Circuit& circuit, const OpPoint& op, const Mirror& mirror,
-                                 const MirrorOutput& output, std::vector<RoutLevel>& levels) {
+                                 const MirrorOutput& output, std::vector<RoutLevel>& levels,
+                                 const DesignerNames& names) {
     RoutEstimate e;
     e.method = "reflection";
     double below = 0.0, below_no_body = 0.0;
@@ -114,12 +122,12 @@ RoutEstimate reflection_estimate(const Circuit& circuit, const OpPoint& op, cons
         if (k < output.degeneration.size() && output.degeneration[k]) {
             const Device& r = circuit.devices()[*output.degeneration[k]];
             resistor = r.value.value_or(0.0);
-            rs_text = rs_text.empty() ? r.instance_path() : r.instance_path() + " + " + rs_text;
+            rs_text = rs_text.empty() ? shown(names, r) : shown(names, r) + " + " + rs_text;
         }
         const double rb = (k == 0 && is_bjt(d)) ? bottom_base_resistance(circuit, op, mirror, d) : 0.0;
         RoutLevel l = reflect_level(op, d, resistor, below, below_no_body, rb);
         l.device = output.devices[k];
-        text = level_formula(d, rs_text, rb != 0.0 && l.rs != 0.0);
+        text = level_formula(d, rs_text, rb != 0.0 && l.rs != 0.0, names);
         below = l.rout;
         below_no_body = l.rout_no_body;
         levels.push_back(l);
@@ -135,20 +143,20 @@ RoutEstimate reflection_estimate(const Circuit& circuit, const OpPoint& op, cons
 const Device& dev(const Circuit& c, std::size_t i) { return c.devices()[i]; }
 
 // Wilson and improved Wilson, MOS: output {M2 diode, M3}, reference {M1} or {M1, M4}.
-std::optional<RoutEstimate> wilson_mos(const Circuit& c, const OpPoint& op, const Mirror& m, const MirrorOutput& out) {
+std::optional<RoutEstimate> wilson_mos(const Circuit& c, const OpPoint& op, const Mirror& m, const MirrorOutput& out, const DesignerNames& names) {
     if (out.devices.size() != 2 || m.reference.empty()) return std::nullopt;
     const Device& m1 = dev(c, m.reference.front());
     const Device& m2 = dev(c, out.devices[0]);
     const Device& m3 = dev(c, out.devices[1]);
     const double a_core = quantity(op, m1, "gm") / quantity(op, m1, "gds");
     double body_of_diode = 1.0;
-    std::string a_text = fmt::format("gm({0})·ro({0})", m1.instance_path());
+    std::string a_text = fmt::format("gm({0})·ro({0})", shown(names, m1));
     const bool improved = m.family == Family::improved_wilson;
     if (improved) {
         if (m.reference.size() < 2) return std::nullopt;
         const Device& m4 = dev(c, m.reference[1]);
         body_of_diode = 1.0 + quantity(op, m4, "gmb") / (quantity(op, m4, "gm") + quantity(op, m4, "gds"));
-        a_text += fmt::format("·(1 + gmb({0})/(gm({0}) + gds({0})))", m4.instance_path());
+        a_text += fmt::format("·(1 + gmb({0})/(gm({0}) + gds({0})))", shown(names, m4));
     }
     const double ro3 = 1.0 / quantity(op, m3, "gds");
     const double gm3 = quantity(op, m3, "gm"), gmb3 = quantity(op, m3, "gmb");
@@ -159,7 +167,7 @@ std::optional<RoutEstimate> wilson_mos(const Circuit& c, const OpPoint& op, cons
     e.value = ro3 + (1.0 + ro3 * (gm3 * (1.0 + a) + gmb3)) / diode;
     e.value_no_body = ro3 + (1.0 + ro3 * gm3 * (1.0 + a_core)) / diode;
     e.formula = fmt::format("ro({0}) + (1 + ro({0})·(gm({0})·(1 + A) + gmb({0})))/(gm({1}) + gds({1})), A = {2}",
-                            m3.instance_path(), m2.instance_path(), a_text);
+                            shown(names, m3), shown(names, m2), a_text);
     e.exact = true;
     e.note = improved ? "exact for an ideal reference current source; A includes the diode's body effect"
                       : "exact for an ideal reference current source";
@@ -168,7 +176,7 @@ std::optional<RoutEstimate> wilson_mos(const Circuit& c, const OpPoint& op, cons
 
 // Regulated cascode, MOS: output {M2, M4}, booster M5 (first helper) with an ideal load.
 std::optional<RoutEstimate> regulated_mos(const Circuit& c, const OpPoint& op, const Mirror& m,
-                                          const std::vector<RoutLevel>& levels) {
+                                          const std::vector<RoutLevel>& levels, const DesignerNames& names) {
     if (levels.size() != 2 || m.helpers.empty()) return std::nullopt;
     const Device& m5 = dev(c, m.helpers.front());
     const RoutLevel& top = levels.back();
@@ -179,7 +187,7 @@ std::optional<RoutEstimate> regulated_mos(const Circuit& c, const OpPoint& op, c
     e.value_no_body = top.ro + top.rs_no_body * (1.0 + top.ro * top.gm * (1.0 + a));
     e.formula = fmt::format(
         "ro({0}) + Rs·(1 + ro({0})·(gm({0})·(1 + A) + gmb({0}))), Rs = ro({1}), A = gm({2})·ro({2})",
-        dev(c, top.device).instance_path(), dev(c, levels.front().device).instance_path(), m5.instance_path());
+        shown(names, dev(c, top.device)), shown(names, dev(c, levels.front().device)), shown(names, m5));
     e.exact = true;
     e.note = "exact when the booster's load is an ideal current source";
     return e;
@@ -190,7 +198,7 @@ std::optional<RoutEstimate> regulated_mos(const Circuit& c, const OpPoint& op, c
 // k = (gm5 - gpi4)/(go5 + gpi4) from Q4's emitter to its base, Gs = 1/Rs + gpi5, and
 // Rout = ro4·(1 + (gm4·(1 + k) + go4)/(Gs + gpi4·(1 + k))), tending to (beta4 + 1)·ro4.
 std::optional<RoutEstimate> regulated_bjt(const Circuit& c, const OpPoint& op, const Mirror& m,
-                                          const std::vector<RoutLevel>& levels) {
+                                          const std::vector<RoutLevel>& levels, const DesignerNames& names) {
     if (levels.size() != 2 || m.helpers.empty()) return std::nullopt;
     const Device& q5 = dev(c, m.helpers.front());
     const RoutLevel& top = levels.back();
@@ -204,7 +212,7 @@ std::optional<RoutEstimate> regulated_bjt(const Circuit& c, const OpPoint& op, c
     e.formula = fmt::format(
         "ro({0})·(1 + (gm({0})·(1 + k) + go({0}))/(Gs + gpi({0})·(1 + k))), "
         "k = (gm({1}) - gpi({0}))/(go({1}) + gpi({0})), Gs = 1/Rs + gpi({1}), Rs = ro({2})",
-        dev(c, top.device).instance_path(), q5.instance_path(), dev(c, levels.front().device).instance_path());
+        shown(names, dev(c, top.device)), shown(names, q5), shown(names, dev(c, levels.front().device)));
     e.exact = true;
     e.note = "exact for the hybrid-pi model without gmu when the booster's load is an ideal current source";
     return e;
@@ -216,7 +224,7 @@ std::optional<RoutEstimate> regulated_bjt(const Circuit& c, const OpPoint& op, c
 // h = (gm1 + go1)/(go1 + gpi3·(1 + go1/G4)) (Q3's base-emitter swing per volt at the diode
 // node; G4 = (gm + gpi + go)(Q4), infinite without Q4), Gg = gm2 + gpi2 + go2 + gpi1,
 // Rout = ro3·(1 + (gm3·h + go3)/(Gg + gpi3·h)), about beta·ro3/2.
-std::optional<RoutEstimate> wilson_bjt(const Circuit& c, const OpPoint& op, const Mirror& m, const MirrorOutput& out) {
+std::optional<RoutEstimate> wilson_bjt(const Circuit& c, const OpPoint& op, const Mirror& m, const MirrorOutput& out, const DesignerNames& names) {
     const bool improved = m.family == Family::improved_wilson;
     if (out.devices.size() != 2 || m.reference.size() != (improved ? 2u : 1u)) return std::nullopt;
     const Device& q1 = dev(c, m.reference.front());
@@ -228,7 +236,7 @@ std::optional<RoutEstimate> wilson_bjt(const Circuit& c, const OpPoint& op, cons
     if (improved) {
         const Device& q4 = dev(c, m.reference[1]);
         diode_factor += go1 / (quantity(op, q4, "gm") + quantity(op, q4, "gpi") + quantity(op, q4, "go"));
-        diode_text = fmt::format("·(1 + go({})/(gm + gpi + go)({}))", q1.instance_path(), q4.instance_path());
+        diode_text = fmt::format("·(1 + go({})/(gm + gpi + go)({}))", shown(names, q1), shown(names, q4));
     }
     const double h = (quantity(op, q1, "gm") + go1) / (go1 + gpi3 * diode_factor);
     const double gg =
@@ -239,7 +247,7 @@ std::optional<RoutEstimate> wilson_bjt(const Circuit& c, const OpPoint& op, cons
     e.formula = fmt::format(
         "ro({0})·(1 + (gm({0})·h + go({0}))/(Gg + gpi({0})·h)), h = (gm({1}) + go({1}))/(go({1}) + "
         "gpi({0}){3}), Gg = (gm + gpi + go)({2}) + gpi({1}); about beta({0})·ro({0})/2",
-        q3.instance_path(), q1.instance_path(), q2.instance_path(), diode_text);
+        shown(names, q3), shown(names, q1), shown(names, q2), diode_text);
     e.exact = true;
     e.note = "exact for the hybrid-pi model without gmu and an ideal reference current source";
     return e;
@@ -250,7 +258,7 @@ std::optional<RoutEstimate> wilson_bjt(const Circuit& c, const OpPoint& op, cons
 // G1 = (gm + gpi + go)(Q1) + gpi2, G3 = (gm + gpi + go)(Q3), Q = 1 + gpi4·(1/G1 + 1/G3),
 // P = gm4 + gpi4·(1 + gm2/G1) + (go2 + go4)·Q, Rout = ro4·P/(gpi4·(1 + gm2/G1) + go2·Q),
 // about beta4·ro4/2 (and ro4 + (1 + gm4·ro4)·ro2 when gpi = 0).
-std::optional<RoutEstimate> cascode_bjt(const Circuit& c, const OpPoint& op, const Mirror& m, const MirrorOutput& out) {
+std::optional<RoutEstimate> cascode_bjt(const Circuit& c, const OpPoint& op, const Mirror& m, const MirrorOutput& out, const DesignerNames& names) {
     if (out.devices.size() != 2 || m.reference.size() != 2) return std::nullopt;
     for (const auto& r : out.degeneration)
         if (r) return std::nullopt;
@@ -273,7 +281,7 @@ std::optional<RoutEstimate> cascode_bjt(const Circuit& c, const OpPoint& op, con
         "ro({0})·P/(gpi({0})·(1 + gm({1})/G1) + go({1})·Q), P = gm({0}) + gpi({0})·(1 + gm({1})/G1) + "
         "(go({1}) + go({0}))·Q, Q = 1 + gpi({0})·(1/G1 + 1/G3), G1 = (gm + gpi + go)({2}) + "
         "gpi({1}), G3 = (gm + gpi + go)({3}); about beta({0})·ro({0})/2",
-        q4.instance_path(), q2.instance_path(), q1.instance_path(), q3.instance_path());
+        shown(names, q4), shown(names, q2), shown(names, q1), shown(names, q3));
     e.exact = true;
     e.note = "exact for the hybrid-pi model without gmu and an ideal reference current source";
     return e;
@@ -288,21 +296,22 @@ double quantity(const OpPoint& op, const Device& device, std::string_view name) 
     throw errors::op_missing_parameters(op.origin, {{device.name, {std::string(name)}, {std::string(name)}, {}, {}}});
 }
 
-StackRout compute_rout(const Circuit& circuit, const OpPoint& op, const Mirror& mirror, const MirrorOutput& output) {
+StackRout compute_rout(const Circuit& circuit, const OpPoint& op, const Mirror& mirror, const MirrorOutput& output,
+                       const DesignerNames& names) {
     StackRout r;
-    r.reflection = reflection_estimate(circuit, op, mirror, output, r.levels);
+    r.reflection = reflection_estimate(circuit, op, mirror, output, r.levels, names);
     const bool bipolar = mirror.kind == "npn" || mirror.kind == "pnp";
     switch (mirror.family) {
         case Family::wilson:
         case Family::improved_wilson:
-            r.family = bipolar ? wilson_bjt(circuit, op, mirror, output) : wilson_mos(circuit, op, mirror, output);
+            r.family = bipolar ? wilson_bjt(circuit, op, mirror, output, names) : wilson_mos(circuit, op, mirror, output, names);
             break;
         case Family::regulated_cascode:
             r.family =
-                bipolar ? regulated_bjt(circuit, op, mirror, r.levels) : regulated_mos(circuit, op, mirror, r.levels);
+                bipolar ? regulated_bjt(circuit, op, mirror, r.levels, names) : regulated_mos(circuit, op, mirror, r.levels, names);
             break;
         case Family::cascode:
-            if (bipolar) r.family = cascode_bjt(circuit, op, mirror, output);
+            if (bipolar) r.family = cascode_bjt(circuit, op, mirror, output, names);
             break;
         default:
             break;

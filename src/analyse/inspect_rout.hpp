@@ -6,6 +6,7 @@
 #include <string_view>
 #include <vector>
 
+#include "src/analyse/designer_names.hpp"
 #include "src/analyse/inspect.hpp"
 
 namespace mirrorcheck::inspect_detail {
@@ -20,6 +21,8 @@ struct StackRout {
 };
 
 // The reflection rule up the output's stack, and the family formula where it differs.
-StackRout compute_rout(const Circuit& circuit, const OpPoint& op, const Mirror& mirror, const MirrorOutput& output);
+// Its formulas name devices as `names` does (find_designer_names).
+StackRout compute_rout(const Circuit& circuit, const OpPoint& op, const Mirror& mirror, const MirrorOutput& output,
+                       const DesignerNames& names);
 
 }  // namespace mirrorcheck::inspect_detail

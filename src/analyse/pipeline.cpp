@@ -105,7 +105,8 @@ ReviewTree run_review(const Circuit& circuit, const OpPoint& given_op, const std
     const std::vector<std::string> no_gmb = assume_missing_gmb_zero(op);
     const std::vector<Mirror> mirrors = find_mirrors(circuit);
     require_transistor_quantities(op, circuit, transistors_of(circuit, mirrors));
-    const InspectionResult inspection = inspect_mirrors(circuit, op, mirrors, settings.inspect);
+    const DesignerNames names = find_designer_names(circuit, mirrors);
+    const InspectionResult inspection = inspect_mirrors(circuit, op, mirrors, settings.inspect, names);
     const std::vector<OwnResistance> own = compute_own_resistances(circuit, op, mirrors);
     const LinearisedSolve linearised =
         compute_linearised_impedances(circuit, op, linearise_targets(mirrors), ac_frequencies(plots));
@@ -116,14 +117,14 @@ ReviewTree run_review(const Circuit& circuit, const OpPoint& given_op, const std
     const Reconciliation reconciliation =
         reconcile_resistances(circuit, mirrors, inspection, own, linearised.outputs, simulated, reconcile);
 
-    ReviewParts parts{circuit, op, mirrors, inspection, own, linearised.outputs, linearised.notes, simulated, reconciliation,
-                      inspection.findings, {}, inputs, thresholds_of(settings), find_designer_names(circuit, mirrors)};
+    ReviewParts parts{circuit, op, mirrors, inspection, own, linearised.outputs, linearised.notes, simulated,
+                      reconciliation, inspection.findings, {}, inputs, thresholds_of(settings), names};
     if (!no_gmb.empty()) {
-        std::string names;
+        std::string listed;
         for (std::size_t k = 0; k < no_gmb.size() && k < 6; ++k)
-            names += (k ? ", " : "") + designer_name(parts.names, no_gmb[k]);
-        if (no_gmb.size() > 6) names += " and " + std::to_string(no_gmb.size() - 6) + " more";
-        parts.assumptions.push_back("gmb taken as 0 for " + names + " (not in the op data)");
+            listed += (k ? ", " : "") + designer_name(parts.names, no_gmb[k]);
+        if (no_gmb.size() > 6) listed += " and " + std::to_string(no_gmb.size() - 6) + " more";
+        parts.assumptions.push_back("gmb taken as 0 for " + listed + " (not in the op data)");
         parts.findings.push_back(make_finding(FindingCode::gmb_missing, "", no_gmb.front(),
                                               {FindingValue::names("devices", no_gmb),
                                                FindingValue::names("first", {no_gmb.front()})}));

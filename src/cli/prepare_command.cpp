@@ -173,6 +173,7 @@ int run_run(RunRequest r) {
     add_deck_probes(p.circuit, p.deck);
     r.review.netlist = r.deck.netlist;
     r.review.op = raw.string();
+    if (!keep) r.review.op_name = "ngspice run (not kept)";
     int status = review_circuit_and_report(r.review, p.circuit, left_out_lines(p.deck));
     if (keep) std::cerr << fmt::format("kept the deck, ngspice's log and results in {}\n", folder.string());
     return status;

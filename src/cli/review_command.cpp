@@ -1,5 +1,6 @@
 #include "src/cli/review_command.hpp"
 
+#include <filesystem>
 #include <iostream>
 #include <memory>
 
@@ -76,6 +77,10 @@ ReviewSettings review_settings(const ReviewOptions& o) {
     return settings;
 }
 
+// What the report calls the --op file: its path, or the name `run` gives the results it
+// deletes before the reader could look (a report must not name a file that is gone).
+std::string shown_name(const ReviewOptions& o) { return o.op_name.empty() ? o.op : o.op_name; }
+
 // The AC and .tf plots of the op file (when it is a raw file) and of every --ac and --tf file.
 std::vector<SimulationPlot> read_simulation_plots(const ReviewOptions& o, std::vector<std::string>& used) {
     std::vector<SimulationPlot> plots;
@@ -86,7 +91,12 @@ std::vector<SimulationPlot> read_simulation_plots(const ReviewOptions& o, std::v
         }
         auto more = simulation_plots_from_raw(raw::read_raw(path, raw::Selection{{"ac", "tf"}, false}));
         if (more.empty() && must_have) throw usage::no_small_signal_plot(path);
-        if (!more.empty()) used.push_back(path);
+        if (!more.empty()) used.push_back(path == o.op ? shown_name(o) : path);
+        if (path == o.op && !o.op_name.empty()) {
+            const std::string file_name = std::filesystem::path(path).filename().string();
+            for (auto& p : more)
+                if (p.origin.rfind(file_name, 0) == 0) p.origin = o.op_name + p.origin.substr(file_name.size());
+        }
         for (auto& p : more) plots.push_back(std::move(p));
     };
     add(o.op, false);
@@ -117,6 +127,7 @@ namespace {
 int review_with(const ReviewOptions& o, const ReviewSettings& settings, const Circuit& circuit,
                 const std::vector<std::string>& left_out) {
     OpPoint op = read_op(circuit, o.op);
+    if (!o.op_name.empty() && op.origin.rfind(o.op, 0) == 0) op.origin = o.op_name + op.origin.substr(o.op.size());
     std::vector<std::string> simulation_files;
     std::vector<SimulationPlot> plots = read_simulation_plots(o, simulation_files);
     const ReviewTree tree =

@@ -14,6 +14,7 @@ namespace mirrorcheck::cli {
 struct ReviewOptions {
     std::string netlist;
     std::string op;
+    std::string op_name;              // what the report calls the op file (`run`: results it deletes); empty: its path
     std::string format = "table";
     std::string margin = "100mV";
     std::string vce_sat = "0.2V";

@@ -235,8 +235,9 @@ private:
         }
         const SimulatedImpedance& sim = o.rout.simulated;
         if (const SimulatedValue* best_sim = sim.best()) {
-            const std::string phase =
-                best_sim->frequency ? fmt::format(", phase {:.0f}°", best_sim->phase_degrees) : std::string();
+            // A phase that rounds to 0° prints as 0°, not as the "-0°" of a tiny negative one.
+            const double degrees = std::abs(best_sim->phase_degrees) < 0.5 ? 0.0 : best_sim->phase_degrees;
+            const std::string phase = best_sim->frequency ? fmt::format(", phase {:.0f}°", degrees) : std::string();
             line(fmt::format("          simulated   {:>9}  {} by {}: {}{}", format_si(best_sim->magnitude, "Ω"),
                              sim.probe_mode, sim.probe, best_sim->source, phase),
                  hang);

@@ -8,15 +8,24 @@
 // 2. regenerate.sh, run into a temporary folder, gives the same numbers as the shipped
 //    results (so they cannot drift from the netlist), and the claims the netlist's
 //    comments make hold by ngspice's own numbers.
+// 3. The second sample (samples/tamarack_vcm/, sky130 models): `run` on the designer's deck
+//    prints exactly expected/run.txt and run.json, writes nothing beside the deck and names
+//    no temporary file; its simulated Rout at isink equals ngspice's own `.tf`; the README
+//    quotes the top of run.txt as it is; regenerate.sh gives the shipped raw file.
+#include <algorithm>
 #include <cmath>
 #include <cstdlib>
 #include <filesystem>
+#include <optional>
 #include <string>
+#include <vector>
 
 #include <doctest/doctest.h>
+#include <nlohmann/json.hpp>
 
 #include "parsers/raw/raw.hpp"
 #include "support/ngspice_run.hpp"
+#include "support/print_output.hpp"
 #include "support/report_schema.hpp"
 #include "support/run_cli.hpp"
 
@@ -170,4 +179,131 @@ TEST_CASE("regenerate.sh: fresh ngspice results equal the shipped ones, and the 
         CHECK(op_value(op, "@q4[ic]") == doctest::Approx(1.99e-6).epsilon(0.005));
         CHECK(std::abs(op_value(op, "@q6[ic]")) == doctest::Approx(15.1e-6).epsilon(0.005));
     }
+}
+
+// The second sample (samples/tamarack_vcm/): a sky130 deck as a schematic tool writes it,
+// reviewed with `run`, which simulates it afresh with ngspice in the deck's folder.
+namespace {
+
+const fs::path vcm_sample = source_dir / "samples" / "tamarack_vcm";
+const std::string run_args = "run samples/tamarack_vcm/tk2_vcm.spice";
+
+// Every entry below the sample folder with its size and modification time: what `run` must
+// leave as it found it.
+std::string folder_listing(const fs::path& dir) {
+    std::vector<std::string> lines;
+    for (const auto& e : fs::recursive_directory_iterator(dir)) {
+        std::string line = fs::relative(e.path(), dir).string();
+        if (e.is_regular_file())
+            line += " " + std::to_string(e.file_size()) + " " +
+                    std::to_string(e.last_write_time().time_since_epoch().count());
+        lines.push_back(line);
+    }
+    std::sort(lines.begin(), lines.end());
+    std::string all;
+    for (const auto& l : lines) all += l + "\n";
+    return all;
+}
+
+// `run` on the sample, with the folder listed before and after.
+mirrorcheck::test::CliResult run_vcm_sample(const std::string& extra) {
+    const std::string before = folder_listing(vcm_sample);
+    auto r = mirrorcheck::test::run_cli(run_args + extra, source_dir);
+    CHECK_MESSAGE(folder_listing(vcm_sample) == before, "run wrote into samples/tamarack_vcm/");
+    // `run` deletes its temporary folder: a report naming it names a file that is gone.
+    CHECK(r.out.find("mirrorcheck-run-") == std::string::npos);
+    CHECK(r.out.find(fs::temp_directory_path().string()) == std::string::npos);
+    return r;
+}
+
+// The contents of the fenced block that follows the fenced block holding the line `marker`
+// (the command, then what it prints); empty when there is none.
+std::string fenced_block_after(const std::string& text, const std::string& marker) {
+    const std::size_t at = text.find("\n" + marker + "\n");
+    if (at == std::string::npos) return "";
+    const std::size_t close = text.find("\n```\n", at);
+    if (close == std::string::npos) return "";
+    const std::size_t open = text.find("\n```\n", close + 4);
+    if (open == std::string::npos) return "";
+    const std::size_t start = open + 5, end = text.find("\n```", start);
+    return end == std::string::npos ? "" : text.substr(start, end + 1 - start);
+}
+
+}  // namespace
+
+TEST_CASE("run on the sky130 sample: the expected table, nothing written beside the deck") {
+    auto r = run_vcm_sample("");
+    CHECK(r.status == 0);  // warnings only: the cascode sink's low margin, the OTA's loaded nodes
+    // stderr: the one card the review deck left out, the deck's own control block
+    CHECK(r.err == "note: left out of the review deck: samples/tamarack_vcm/tk2_vcm.spice:47: .control ... .endc\n");
+    check_golden(without_source_dir(r.out), vcm_sample / "expected" / "run.txt");
+}
+
+TEST_CASE("run on the sky130 sample: the expected JSON, valid, and its isink Rout equal to ngspice's own .tf") {
+    auto r = run_vcm_sample(" --format json");
+    CHECK(r.status == 0);
+    check_golden(without_source_dir(r.out), vcm_sample / "expected" / "run.json");
+    CHECK(mirrorcheck::test::report_schema_errors(r.out) == "");
+
+    const nlohmann::json report = nlohmann::json::parse(r.out);
+    std::optional<double> simulated;
+    for (const auto& m : report["mirrors"])
+        for (const auto& o : m["outputs"])
+            if (o["node"] == "isink") {
+                CHECK(o["rout"]["probe"] == "v3");  // the deck's own source holding the node
+                // the cascode's reflection formula names the schematic's X instances
+                CHECK(o["rout"]["formula"] == "ro(xm10) + (1 + (gm+gmb)(xm10)·ro(xm10))·ro(xm9)");
+                if (o["rout"]["simulated"].is_number()) simulated = o["rout"]["simulated"].get<double>();
+            }
+    REQUIRE_MESSAGE(simulated, "no simulated Rout at isink");
+
+    // ngspice's .tf of the designer's deck, its control block replaced by one of ours, in a
+    // temporary folder beside a link to the sample's models.
+    const fs::path dir = mirrorcheck::test::make_temp_dir("mc-vcm-tf");
+    std::string deck = read_text(vcm_sample / "tk2_vcm.spice");
+    const std::size_t control = deck.find("\n.control\n"), endc = deck.find("\n.endc\n");
+    REQUIRE(control != std::string::npos);
+    REQUIRE(endc != std::string::npos);
+    deck.replace(control + 1, endc + 6 - control, ".control\ntf i(v3) v3\nprint all\nquit 0\n.endc\n");
+    fs::create_directory_symlink(vcm_sample / "sky130", dir / "sky130");
+    mirrorcheck::test::write_text(dir / "tf.spice", deck);
+    mirrorcheck::test::write_text(dir / ".spiceinit", "set num_threads=1\n");
+    const int status = std::system(("cd '" + dir.string() + "' && ngspice -b tf.spice > tf.log 2>&1").c_str());
+    const std::string log = read_text(dir / "tf.log");
+    REQUIRE_MESSAGE(status == 0, log);
+    auto printed = mirrorcheck::test::parse_print_output(log);
+    auto it = printed.find("v3#input_impedance");
+    REQUIRE_MESSAGE(it != printed.end(), log);
+    const double tf = it->second.at(0).real();
+    MESSAGE("isink: simulated " << *simulated << " Ω, ngspice .tf " << tf << " Ω");
+    CHECK(*simulated == doctest::Approx(tf).epsilon(1e-3));
+    std::error_code ignored;
+    fs::remove_all(dir, ignored);
+}
+
+TEST_CASE("the README quotes the top of the sky130 sample's run table as it is") {
+    const std::string quoted =
+        fenced_block_after(read_text(source_dir / "README.md"), "build/mirrorcheck run samples/tamarack_vcm/tk2_vcm.spice");
+    REQUIRE_MESSAGE(!quoted.empty(), "no quoted run output in README.md");
+    const std::string expected = read_text(vcm_sample / "expected" / "run.txt");
+    CHECK(expected.compare(0, quoted.size(), quoted) == 0);
+    CHECK(std::count(quoted.begin(), quoted.end(), '\n') >= 6);  // the verdict and the summary rows at least
+}
+
+TEST_CASE("sky130 sample: regenerate.sh gives the shipped results, and the deck's comments hold") {
+    const fs::path dir = mirrorcheck::test::make_temp_dir("mc-vcm");
+    const std::string cmd = "bash '" + (vcm_sample / "regenerate.sh").string() + "' '" + dir.string() + "' > '" +
+                            (dir / "regenerate.log").string() + "' 2>&1";
+    REQUIRE_MESSAGE(std::system(cmd.c_str()) == 0, read_text(dir / "regenerate.log"));
+    check_same_plots(dir / "tk2_vcm.raw", vcm_sample / "tk2_vcm.raw");
+    auto raw = mirrorcheck::raw::read_raw(dir / "tk2_vcm.raw");
+    const auto& op = raw.plots.at(0);
+    REQUIRE(op.kind() == "op");
+    // the buffer follows its 0.9 V input to within its offset
+    CHECK(std::abs(op_value(op, "v(vcm)") - op_value(op, "v(vin)")) < 5e-3);
+    // the cascode sink pulls 20 uA (1:2 of I1's 10 uA) out of the 1.0 V input (V3)
+    CHECK(op_value(op, "v(isink)") == doctest::Approx(1.0));
+    CHECK(op_value(op, "i(v3)") == doctest::Approx(20e-6).epsilon(0.005));
+    std::error_code ignored;
+    fs::remove_all(dir, ignored);
 }

@@ -8,7 +8,9 @@
 // and Design of Analog Integrated Circuits, ch. 3). Gates and bases are taken at AC ground,
 // except the base of a bipolar bottom device whose reference is a diode on the same base
 // net: its Rb is that diode's 1/(gm + gpi + go) plus its emitter resistor (a degenerated
-// bipolar mirror's reference is not small against rpi).
+// bipolar mirror's reference is not small against rpi); and of a bipolar current source
+// whose base sits on a resistor divider: its Rb is the divider's resistors to the supplies
+// in parallel (with Re = RE || (rpi + Rb), the same source).
 //
 // Family formulas where the plain rule is not the circuit (direct small-signal derivations,
 // KCL at the internal nodes, for an ideal reference current source):
@@ -17,8 +19,9 @@
 //   improved Wilson (diode M4 on M1's drain drives M3's gate): the same with
 //     A = gm1·ro1·(1 + gmb4/(gm4 + gds4)): the diode carries no signal current, so its
 //     gate follows its source up to its own body effect. Exact.
-//   regulated cascode (booster M5 from M4's source to its gate, ideal load): Rout = ro4 +
-//     Rs·(1 + ro4·(gm4·(1 + A) + gmb4)), A = gm5·ro5. Exact for an ideal booster load.
+//   regulated cascode (booster M5 from M4's source to its gate): Rout = ro4 +
+//     Rs·(1 + ro4·(gm4·(1 + A) + gmb4)), A = gm5·(ro5 || ro(load)), the booster's load a
+//     current source with its gate held (its ro; infinite when there is none). Exact.
 //   Wilson and improved Wilson, bipolar: the same nodes with the base currents of Q3 (at
 //     Q1's collector, through the diode in the improved form) and Q1 (at the diode node)
 //     kept (wilson_bjt below).
@@ -61,10 +64,38 @@ std::string factor(const std::string& text) {
     return text.find(" + ") == std::string::npos && text.find(" || ") == std::string::npos ? text : "(" + text + ")";
 }
 
+// A net held at AC ground: ground, or a net a voltage source joins to ground (a supply).
+bool is_supply(const Circuit& circuit, const std::string& net) {
+    if (net == "0") return true;
+    const Net* n = circuit.find_net(net);
+    if (!n) return false;
+    for (const TerminalRef& t : n->terminals) {
+        const Device& d = circuit.devices()[t.device];
+        if (d.kind == DeviceKind::vsource && d.terminals.size() == 2 && d.terminals[1 - t.terminal].net == "0")
+            return true;
+    }
+    return false;
+}
+
+// Rb of a current source's base: the resistors from its base net to a supply in parallel (a
+// divider); 0 when there are none.
+double divider_resistance(const Circuit& circuit, const Device& bottom) {
+    const Net* base = circuit.find_net(net_of(bottom, "b"));
+    if (!base || is_supply(circuit, base->name)) return 0.0;
+    double conductance = 0.0;
+    for (const TerminalRef& t : base->terminals) {
+        const Device& r = circuit.devices()[t.device];
+        if (r.kind != DeviceKind::resistor || r.terminals.size() != 2 || !r.value || *r.value <= 0) continue;
+        if (is_supply(circuit, r.terminals[1 - t.terminal].net)) conductance += 1.0 / *r.value;
+    }
+    return conductance > 0 ? 1.0 / conductance : 0.0;
+}
+
 // Rb of a bipolar bottom output device: the impedance of a diode-connected reference device
-// on its base net, 1/(gm + gpi + go) + RE; 0 when the base is driven otherwise.
+// on its base net, 1/(gm + gpi + go) + RE; for a current source, the divider on its base;
+// 0 when the base is driven otherwise.
 double bottom_base_resistance(const Circuit& circuit, const OpPoint& op, const Mirror& mirror, const Device& bottom) {
-    if (mirror.reference.empty()) return 0.0;
+    if (mirror.reference.empty()) return divider_resistance(circuit, bottom);
     const Device& ref = circuit.devices()[mirror.reference.front()];
     const std::string base = net_of(ref, "b");
     if (!is_bjt(ref) || base != net_of(ref, "c") || base != net_of(bottom, "b")) return 0.0;
@@ -174,22 +205,43 @@ std::optional<RoutEstimate> wilson_mos(const Circuit& c, const OpPoint& op, cons
     return e;
 }
 
-// Regulated cascode, MOS: output {M2, M4}, booster M5 (first helper) with an ideal load.
+// The output conductance of a booster's load (Mirror::helper_loads: gds or go of each, its
+// gate or base held), and the formula's words for it.
+double booster_load_conductance(const Circuit& c, const OpPoint& op, const Mirror& m) {
+    double g = 0.0;
+    for (std::size_t i : m.helper_loads) {
+        const Device& d = dev(c, i);
+        g += quantity(op, d, is_bjt(d) ? "go" : "gds");
+    }
+    return g;
+}
+
+std::string booster_load_text(const Circuit& c, const Mirror& m, const DesignerNames& names) {
+    std::string text;
+    for (std::size_t i : m.helper_loads) text += (text.empty() ? "" : " || ") + ("ro(" + shown(names, dev(c, i)) + ")");
+    return text;
+}
+
+// Regulated cascode, MOS: output {M2, M4}, booster M5 (first helper) with its load (the
+// helper loads' gds in parallel with its own; an ideal current source when there is none).
 std::optional<RoutEstimate> regulated_mos(const Circuit& c, const OpPoint& op, const Mirror& m,
                                           const std::vector<RoutLevel>& levels, const DesignerNames& names) {
     if (levels.size() != 2 || m.helpers.empty()) return std::nullopt;
     const Device& m5 = dev(c, m.helpers.front());
     const RoutLevel& top = levels.back();
-    const double a = quantity(op, m5, "gm") / quantity(op, m5, "gds");
+    const double a = quantity(op, m5, "gm") / (quantity(op, m5, "gds") + booster_load_conductance(c, op, m));
+    const std::string load = booster_load_text(c, m, names);
     RoutEstimate e;
     e.method = "regulated-cascode";
     e.value = top.ro + top.rs * (1.0 + top.ro * (top.gm * (1.0 + a) + top.gmb));
     e.value_no_body = top.ro + top.rs_no_body * (1.0 + top.ro * top.gm * (1.0 + a));
     e.formula = fmt::format(
-        "ro({0}) + Rs·(1 + ro({0})·(gm({0})·(1 + A) + gmb({0}))), Rs = ro({1}), A = gm({2})·ro({2})",
-        shown(names, dev(c, top.device)), shown(names, dev(c, levels.front().device)), shown(names, m5));
+        "ro({0}) + Rs·(1 + ro({0})·(gm({0})·(1 + A) + gmb({0}))), Rs = ro({1}), A = gm({2})·{3}",
+        shown(names, dev(c, top.device)), shown(names, dev(c, levels.front().device)), shown(names, m5),
+        load.empty() ? "ro(" + shown(names, m5) + ")" : "(ro(" + shown(names, m5) + ") || " + load + ")");
     e.exact = true;
-    e.note = "exact when the booster's load is an ideal current source";
+    e.note = load.empty() ? "exact when the booster's load is an ideal current source"
+                          : "exact with the booster's load as its output conductance (its gate held)";
     return e;
 }
 
@@ -204,17 +256,20 @@ std::optional<RoutEstimate> regulated_bjt(const Circuit& c, const OpPoint& op, c
     const RoutLevel& top = levels.back();
     const double gm5 = quantity(op, q5, "gm"), gpi5 = quantity(op, q5, "gpi"), go5 = quantity(op, q5, "go");
     const double go4 = 1.0 / top.ro;
-    const double k = (gm5 - top.gpi) / (go5 + top.gpi);
+    const double gload = booster_load_conductance(c, op, m);
+    const double k = (gm5 - top.gpi) / (go5 + gload + top.gpi);
     const double gs = 1.0 / top.rs + gpi5;
     RoutEstimate e;
     e.method = "regulated-cascode";
     e.value = e.value_no_body = top.ro * (1.0 + (top.gm * (1.0 + k) + go4) / (gs + top.gpi * (1.0 + k)));
     e.formula = fmt::format(
         "ro({0})·(1 + (gm({0})·(1 + k) + go({0}))/(Gs + gpi({0})·(1 + k))), "
-        "k = (gm({1}) - gpi({0}))/(go({1}) + gpi({0})), Gs = 1/Rs + gpi({1}), Rs = ro({2})",
-        shown(names, dev(c, top.device)), shown(names, q5), shown(names, dev(c, levels.front().device)));
+        "k = (gm({1}) - gpi({0}))/(go({1}){3} + gpi({0})), Gs = 1/Rs + gpi({1}), Rs = ro({2})",
+        shown(names, dev(c, top.device)), shown(names, q5), shown(names, dev(c, levels.front().device)),
+        gload > 0 ? " + Gload" : "");
     e.exact = true;
-    e.note = "exact for the hybrid-pi model without gmu when the booster's load is an ideal current source";
+    e.note = gload > 0 ? "exact for the hybrid-pi model without gmu, Gload the booster's load's output conductance"
+                       : "exact for the hybrid-pi model without gmu when the booster's load is an ideal current source";
     return e;
 }
 
@@ -296,6 +351,27 @@ double quantity(const OpPoint& op, const Device& device, std::string_view name) 
     throw errors::op_missing_parameters(op.origin, {{device.name, {std::string(name)}, {std::string(name)}, {}, {}}});
 }
 
+// The top device's drain-bulk junction conductance (gbd; ngspice puts at least gmin there),
+// when the op data has it and the bulk is not the source: it sits from the output to the
+// bulk, in parallel with everything the formula describes. It matters only at very high
+// resistances (1/gmin = 1 TΩ), so the formula names it only where it moves the value by
+// more than 0.1 %.
+void add_drain_junction(const Circuit& c, const OpPoint& op, const MirrorOutput& output, RoutEstimate& e,
+                        const DesignerNames& names) {
+    if (output.devices.empty()) return;
+    const Device& top = dev(c, output.devices.back());
+    const DeviceOp* o = op.device(top.name);
+    if (is_bjt(top) || !o || net_of(top, "b") == net_of(top, "s")) return;
+    const auto gbd = o->get("gbd");
+    if (!gbd || *gbd <= 0 || !std::isfinite(e.value) || e.value <= 0) return;
+    auto parallel = [&](double r) { return r > 0 && std::isfinite(r) ? 1.0 / (1.0 / r + *gbd) : r; };
+    const double before = e.value;
+    e.value = parallel(e.value);
+    e.value_no_body = parallel(e.value_no_body);
+    if (before / e.value - 1.0 > 1e-3)
+        e.formula = "(" + e.formula + ") || 1/gbd(" + shown(names, top) + ")";
+}
+
 StackRout compute_rout(const Circuit& circuit, const OpPoint& op, const Mirror& mirror, const MirrorOutput& output,
                        const DesignerNames& names) {
     StackRout r;
@@ -316,6 +392,8 @@ StackRout compute_rout(const Circuit& circuit, const OpPoint& op, const Mirror& 
         default:
             break;
     }
+    add_drain_junction(circuit, op, output, r.reflection, names);
+    if (r.family) add_drain_junction(circuit, op, output, *r.family, names);
     return r;
 }
 

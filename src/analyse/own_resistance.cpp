@@ -50,24 +50,6 @@ const std::string* net_of(const Device& d, std::initializer_list<std::string_vie
     return nullptr;
 }
 
-// Ground and every net a chain of voltage sources joins to it: held by the circuit in small
-// signal (a source's value is zero there). A 0 V ammeter in series elsewhere holds nothing.
-std::set<std::string> source_held_nets(const Circuit& circuit) {
-    std::set<std::string> held = {"0"};
-    for (bool grew = true; grew;) {
-        grew = false;
-        for (const Device& d : circuit.devices()) {
-            if (d.kind != DeviceKind::vsource || d.terminals.size() < 2) continue;
-            const std::string a = to_lower(d.terminals[0].net), b = to_lower(d.terminals[1].net);
-            if (held.count(a) != held.count(b)) {
-                held.insert(held.count(a) ? b : a);
-                grew = true;
-            }
-        }
-    }
-    return held;
-}
-
 class MirrorAlone {
 public:
     MirrorAlone(const Circuit& circuit, const Mirror& mirror, const std::set<std::string>& rails)

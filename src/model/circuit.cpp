@@ -85,4 +85,20 @@ const Net* Circuit::find_net(std::string_view name) const {
     return it == net_index_.end() ? nullptr : &nets_[it->second];
 }
 
+std::set<std::string> source_held_nets(const Circuit& circuit) {
+    std::set<std::string> held = {"0"};
+    for (bool grew = true; grew;) {
+        grew = false;
+        for (const Device& d : circuit.devices()) {
+            if (d.kind != DeviceKind::vsource || d.terminals.size() < 2) continue;
+            const std::string a = to_lower(d.terminals[0].net), b = to_lower(d.terminals[1].net);
+            if (held.count(a) != held.count(b)) {
+                held.insert(held.count(a) ? b : a);
+                grew = true;
+            }
+        }
+    }
+    return held;
+}
+
 }  // namespace mirrorcheck

@@ -11,6 +11,7 @@
 #include <map>
 #include <memory>
 #include <optional>
+#include <set>
 #include <string>
 #include <string_view>
 #include <unordered_map>
@@ -130,5 +131,10 @@ private:
     std::unordered_map<std::string, std::size_t> net_index_;
 };
 
+
+// Ground and every net a chain of voltage sources joins to it, lower case: the nets the
+// circuit holds in small signal (a source's value is zero there). A 0 V ammeter in series
+// elsewhere holds nothing.
+std::set<std::string> source_held_nets(const Circuit& circuit);
 
 }  // namespace mirrorcheck

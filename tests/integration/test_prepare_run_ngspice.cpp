@@ -176,8 +176,12 @@ TEST_CASE("run gives the same review as a testbench written by hand") {
     for (std::size_t k = 0; k < a.size(); ++k) {
         CAPTURE(a[k]["node"]);
         CHECK(a[k]["node"] == b[k]["node"]);
-        for (const char* v : {"inspection", "linearised", "simulated"})
+        for (const char* v : {"linearised", "simulated"})
             CHECK(a[k]["rout"][v].get<double>() == doctest::Approx(b[k]["rout"][v].get<double>()).epsilon(1e-6));
+        // run saves the drain junctions' gbd, which inspection puts across the output; the hand
+        // testbench does not (ngspice's gmin there moves a 151 MΩ output by 1.5e-4)
+        CHECK(a[k]["rout"]["inspection"].get<double>() ==
+              doctest::Approx(b[k]["rout"]["inspection"].get<double>()).epsilon(1e-3));
     }
     std::vector<std::string> codes_run, codes_hand;
     for (const auto& f : r.report["findings"]) codes_run.push_back(f["code"].get<std::string>() + " " + f["subject"].get<std::string>());

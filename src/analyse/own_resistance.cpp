@@ -43,7 +43,6 @@ constexpr const char* mirror_alone = "mirror alone";
 
 bool is_transistor(const Device& d) { return d.kind == DeviceKind::mosfet || d.kind == DeviceKind::bjt; }
 
-
 const std::string* net_of(const Device& d, std::initializer_list<std::string_view> roles) {
     for (std::string_view role : roles)
         if (const Terminal* t = d.terminal(role)) return &t->net;

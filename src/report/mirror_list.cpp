@@ -39,6 +39,7 @@ std::string write_mirror_table(const Circuit& circuit, const std::vector<Mirror>
         if (!m.reference.empty())
             fmt::format_to(it, "  reference  {}  at node {}\n", device_list(circuit, m.reference), m.reference_node);
         if (!m.helpers.empty()) fmt::format_to(it, "  helpers    {}\n", device_list(circuit, m.helpers));
+        if (!m.helper_loads.empty()) fmt::format_to(it, "  helper load {}\n", device_list(circuit, m.helper_loads));
         for (const auto& o : m.outputs)
             fmt::format_to(it, "  output     {:<12} {}  (bottom to top)  design ratio {}\n", o.node,
                            device_list(circuit, o.devices), ratio_text(o.design_ratio));
@@ -56,7 +57,7 @@ nlohmann::json mirrors_to_json(const Circuit& circuit, const std::vector<Mirror>
                                {"degeneration", optional_names(circuit, o.degeneration)},
                                {"design_ratio", o.design_ratio ? nlohmann::json(*o.design_ratio) : nlohmann::json()}});
         nlohmann::json designer = nlohmann::json::object();
-        for (const auto* group : {&m.reference, &m.helpers})
+        for (const auto* group : {&m.reference, &m.helpers, &m.helper_loads})
             for (std::size_t i : *group) designer[circuit.devices()[i].name] = circuit.devices()[i].instance_path();
         for (const auto& o : m.outputs)
             for (std::size_t i : o.devices) designer[circuit.devices()[i].name] = circuit.devices()[i].instance_path();
@@ -66,6 +67,7 @@ nlohmann::json mirrors_to_json(const Circuit& circuit, const std::vector<Mirror>
                         {"reference_node", m.reference_node},
                         {"outputs", outputs},
                         {"helpers", device_names(circuit, m.helpers)},
+                        {"helper_loads", device_names(circuit, m.helper_loads)},
                         {"designer", designer}});
     }
     return {{"schema", "mirrorcheck-list/1"}, {"title", circuit.title}, {"mirrors", list}};

@@ -66,3 +66,22 @@ TEST_CASE("a deck that cannot be read: exit status 2 and the file named") {
     CHECK(r.err.find("bad.cir:2") != std::string::npos);
     std::filesystem::remove_all(dir);
 }
+
+TEST_CASE("a regulated cascode lists its booster and the booster's load, and no output for the load") {
+    const std::string deck = std::string(MIRRORCHECK_TEST_DATA) + "/amplifiers/regulated_cascode.cir";
+    Result r = list("'" + deck + "' --format json");
+    REQUIRE(r.status == 0);
+    const auto j = nlohmann::json::parse(r.out);
+    bool found = false;
+    for (const auto& m : j["mirrors"]) {
+        if (m["family"] != "nmos-regulated-cascode") continue;
+        found = true;
+        CHECK(m["helpers"] == nlohmann::json::array({"mn5"}));
+        CHECK(m["helper_loads"] == nlohmann::json::array({"mp6"}));
+    }
+    CHECK(found);
+    for (const auto& m : j["mirrors"])
+        for (const auto& o : m["outputs"]) CHECK(o["node"] != "a");  // the booster's drain is no output
+    Result table = list("'" + deck + "'");
+    CHECK(table.out.find("helper load mp6") != std::string::npos);
+}

@@ -39,6 +39,8 @@
 
 #include <algorithm>
 #include <cmath>
+#include <set>
+#include <string>
 
 #include "parsers/common/input_error.hpp"
 #include "src/model/op_point_errors.hpp"
@@ -205,10 +207,11 @@ void unbounded_when_ro_infinite(RoutEstimate& e, const std::vector<RoutLevel>& l
 }
 
 OutputInspection inspect_output(const Circuit& circuit, const OpPoint& op, const Mirror& mirror,
-                                const MirrorOutput& output, const InspectOptions& options, const DesignerNames& names) {
+                                const MirrorOutput& output, const InspectOptions& options, const DesignerNames& names,
+                                const std::set<std::string>& held) {
     OutputInspection o;
     o.node = output.node;
-    auto rout = inspect_detail::compute_rout(circuit, op, mirror, output, names);
+    auto rout = inspect_detail::compute_rout(circuit, op, mirror, output, names, held);
     o.levels = std::move(rout.levels);
     o.reflection = std::move(rout.reflection);
     o.family = std::move(rout.family);
@@ -330,13 +333,14 @@ DeviceRegion classify_region(const DeviceOp& op, const InspectOptions& options) 
 InspectionResult inspect_mirrors(const Circuit& circuit, const OpPoint& op, const std::vector<Mirror>& mirrors,
                                  const InspectOptions& options, const DesignerNames& names) {
     require_transistor_quantities(op, circuit, transistor_names(circuit, mirrors));
+    const std::set<std::string> held = source_held_nets(circuit);
     InspectionResult result;
     for (const Mirror& mirror : mirrors) {
         MirrorInspection m;
         m.mirror = mirror.id;
         m.reference = classify_all(circuit, op, mirror.reference, options);
         for (const MirrorOutput& output : mirror.outputs)
-            m.outputs.push_back(inspect_output(circuit, op, mirror, output, options, names));
+            m.outputs.push_back(inspect_output(circuit, op, mirror, output, options, names, held));
         result.mirrors.push_back(std::move(m));
     }
     result.findings = collect_findings(result, options);

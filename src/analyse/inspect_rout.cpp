@@ -64,29 +64,16 @@ std::string factor(const std::string& text) {
     return text.find(" + ") == std::string::npos && text.find(" || ") == std::string::npos ? text : "(" + text + ")";
 }
 
-// A net held at AC ground: ground, or a net a voltage source joins to ground (a supply).
-bool is_supply(const Circuit& circuit, const std::string& net) {
-    if (net == "0") return true;
-    const Net* n = circuit.find_net(net);
-    if (!n) return false;
-    for (const TerminalRef& t : n->terminals) {
-        const Device& d = circuit.devices()[t.device];
-        if (d.kind == DeviceKind::vsource && d.terminals.size() == 2 && d.terminals[1 - t.terminal].net == "0")
-            return true;
-    }
-    return false;
-}
-
-// Rb of a current source's base: the resistors from its base net to a supply in parallel (a
-// divider); 0 when there are none.
-double divider_resistance(const Circuit& circuit, const Device& bottom) {
+// Rb of a current source's base: the resistors from its base net to a net the circuit holds
+// (`held`, source_held_nets) in parallel (a divider); 0 when there are none.
+double divider_resistance(const Circuit& circuit, const Device& bottom, const std::set<std::string>& held) {
     const Net* base = circuit.find_net(net_of(bottom, "b"));
-    if (!base || is_supply(circuit, base->name)) return 0.0;
+    if (!base || held.count(to_lower(base->name))) return 0.0;
     double conductance = 0.0;
     for (const TerminalRef& t : base->terminals) {
         const Device& r = circuit.devices()[t.device];
         if (r.kind != DeviceKind::resistor || r.terminals.size() != 2 || !r.value || *r.value <= 0) continue;
-        if (is_supply(circuit, r.terminals[1 - t.terminal].net)) conductance += 1.0 / *r.value;
+        if (held.count(to_lower(r.terminals[1 - t.terminal].net))) conductance += 1.0 / *r.value;
     }
     return conductance > 0 ? 1.0 / conductance : 0.0;
 }
@@ -94,8 +81,9 @@ double divider_resistance(const Circuit& circuit, const Device& bottom) {
 // Rb of a bipolar bottom output device: the impedance of a diode-connected reference device
 // on its base net, 1/(gm + gpi + go) + RE; for a current source, the divider on its base;
 // 0 when the base is driven otherwise.
-double bottom_base_resistance(const Circuit& circuit, const OpPoint& op, const Mirror& mirror, const Device& bottom) {
-    if (mirror.reference.empty()) return divider_resistance(circuit, bottom);
+double bottom_base_resistance(const Circuit& circuit, const OpPoint& op, const Mirror& mirror, const Device& bottom,
+                              const std::set<std::string>& held) {
+    if (mirror.reference.empty()) return divider_resistance(circuit, bottom, held);
     const Device& ref = circuit.devices()[mirror.reference.front()];
     const std::string base = net_of(ref, "b");
     if (!is_bjt(ref) || base != net_of(ref, "c") || base != net_of(bottom, "b")) return 0.0;
@@ -141,7 +129,7 @@ std::string level_formula(const Device& d, const std::string& rs_text, bool has_
 
 RoutEstimate reflection_estimate(const Circuit& circuit, const OpPoint& op, const Mirror& mirror,
                                  const MirrorOutput& output, std::vector<RoutLevel>& levels,
-                                 const DesignerNames& names) {
+                                 const DesignerNames& names, const std::set<std::string>& held) {
     RoutEstimate e;
     e.method = "reflection";
     double below = 0.0, below_no_body = 0.0;
@@ -155,7 +143,7 @@ RoutEstimate reflection_estimate(const Circuit& circuit, const OpPoint& op, cons
             resistor = r.value.value_or(0.0);
             rs_text = rs_text.empty() ? shown(names, r) : shown(names, r) + " + " + rs_text;
         }
-        const double rb = (k == 0 && is_bjt(d)) ? bottom_base_resistance(circuit, op, mirror, d) : 0.0;
+        const double rb = (k == 0 && is_bjt(d)) ? bottom_base_resistance(circuit, op, mirror, d, held) : 0.0;
         RoutLevel l = reflect_level(op, d, resistor, below, below_no_body, rb);
         l.device = output.devices[k];
         text = level_formula(d, rs_text, rb != 0.0 && l.rs != 0.0, names);
@@ -373,9 +361,9 @@ void add_drain_junction(const Circuit& c, const OpPoint& op, const MirrorOutput&
 }
 
 StackRout compute_rout(const Circuit& circuit, const OpPoint& op, const Mirror& mirror, const MirrorOutput& output,
-                       const DesignerNames& names) {
+                       const DesignerNames& names, const std::set<std::string>& held) {
     StackRout r;
-    r.reflection = reflection_estimate(circuit, op, mirror, output, r.levels, names);
+    r.reflection = reflection_estimate(circuit, op, mirror, output, r.levels, names, held);
     const bool bipolar = mirror.kind == "npn" || mirror.kind == "pnp";
     switch (mirror.family) {
         case Family::wilson:

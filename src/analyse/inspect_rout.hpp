@@ -2,6 +2,7 @@
 #pragma once
 
 #include <optional>
+#include <set>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -22,7 +23,8 @@ struct StackRout {
 
 // The reflection rule up the output's stack, and the family formula where it differs.
 // Its formulas name devices as `names` does (find_designer_names).
+// `held`: the nets the circuit holds in small signal (source_held_nets, circuit.hpp).
 StackRout compute_rout(const Circuit& circuit, const OpPoint& op, const Mirror& mirror, const MirrorOutput& output,
-                       const DesignerNames& names);
+                       const DesignerNames& names, const std::set<std::string>& held);
 
 }  // namespace mirrorcheck::inspect_detail

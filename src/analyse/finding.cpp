@@ -146,9 +146,6 @@ const std::vector<CauseInfo>& cause_catalogue() {
         {C::mirror_devices_only, "mirror-devices-only",
          "the linearised value covers only the mirror's own devices (the op data lacks parameters elsewhere), "
          "while the simulation has the whole circuit: loads and a reference that is not AC ground count there"},
-        {C::devices_on_output, "devices-on-output",
-         "{loads} also sit on {node}, and the formula leaves them out while the simulation measures the node "
-         "with them; the mirror's own resistance is not what the node shows"},
         {C::data_mismatch, "data-mismatch",
          "the op data does not describe the simulated circuit: a parameter missing or misread, an operating "
          "point that differs between the op run and the AC run, or a probe on another node than the mirror "

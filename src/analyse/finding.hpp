@@ -55,10 +55,9 @@ enum class CauseCode {
     not_dc_value,           // the AC point is above DC
     body_effect_neglected,  // gmb missing from the op data
     mirror_devices_only,    // the solve covered the mirror's devices only
-    devices_on_output,      // no solve, but the netlist shows devices the formula leaves out
     data_mismatch,          // the op data and the simulation disagree, no benign cause
 };
-inline constexpr std::size_t cause_code_count = 10;
+inline constexpr std::size_t cause_code_count = 9;
 std::string_view to_string(CauseCode code);
 
 // How a number is written in a sentence (src/report/finding_text.cpp).

@@ -135,26 +135,21 @@ std::pair<Severity, Cause> simulation_cause(const Context& c, const SimulatedVal
                 cause(CauseCode::collapsed_device,
                       {V::names("device", {d->name}), V::words("region", std::string(to_string(d->region)))})};
     if (lin && lin->scope == "mirror devices only") return {Severity::warning, cause(CauseCode::mirror_devices_only)};
-    // Without a solve the netlist still shows what the formula leaves out: a sky130
-    // mirror whose output also carries a PMOS diode was once blamed on the data.
-    if (!lin)
-        if (auto loads = loads_on(c.circuit, c.output); !loads.empty() && computed > sim.magnitude)
-            return {Severity::info,
-                    cause(CauseCode::devices_on_output, {V::names("loads", loads), V::words("node", c.output.node)})};
     return {Severity::error, cause(CauseCode::data_mismatch)};
 }
 
 // The node's impedance against the mirror's own: loading and feedback are information; a
-// floor the user set is checked.
-void compare_own_and_node(const Context& c, double own, const char* own_from, double node, const char* node_from) {
+// floor the user set is checked. True when the node was reported as loaded or fed back.
+bool compare_own_and_node(const Context& c, double own, const char* own_from, double node, const char* node_from) {
     const double tol = c.options.tolerance;
     const auto loads = loads_on(c.circuit, c.output);
     std::vector<FindingValue> values = {V::of("in_circuit", node, Unit::ohm), V::of("own", own, Unit::ohm),
                                         V::words("own_from", own_from)};
-    if (node < own * (1 - tol) && node > 0) {
+    const bool loaded = node < own * (1 - tol) && node > 0, fed_back = node > own * (1 + tol) || node <= 0;
+    if (loaded) {
         if (!loads.empty()) values.push_back(V::names("loads", loads));
         c.add(FindingCode::loaded_output, Severity::info, std::move(values));
-    } else if (node > own * (1 + tol) || node <= 0) {
+    } else if (fed_back) {
         c.add(FindingCode::feedback_at_output, Severity::info, std::move(values));
     }
     if (auto limit = c.options.min_impedance_at(c.output.node); limit && node < *limit) {
@@ -163,6 +158,7 @@ void compare_own_and_node(const Context& c, double own, const char* own_from, do
         if (!loads.empty()) v.push_back(V::names("loads", loads));
         c.add(FindingCode::low_node_impedance, Severity::warning, std::move(v));
     }
+    return loaded || fed_back;
 }
 
 void reconcile_output(const Context& c, const OwnResistance* own_solve, const LinearisedImpedance* lin,
@@ -200,9 +196,11 @@ void reconcile_output(const Context& c, const OwnResistance* own_solve, const Li
     if (own && linearised && lin->scope != "mirror devices only") {
         out.comparisons.push_back(compare("own-vs-linearised", *own, *linearised, tol));
         compare_own_and_node(c, *own, "the mirror alone, solved exactly", *linearised, "linearised, in the circuit");
-    } else if (!linearised && inspection && simulated) {
-        compare_own_and_node(c, *inspection, "by inspection", simulated->magnitude, "simulated");
     }
+    // Without any solve, the netlist still shows what loads the node (a sky130 mirror whose
+    // output also carries a PMOS diode was once blamed on the data): loaded, by inspection.
+    const bool told_by_structure = !linearised && inspection && simulated && !loads_on(c.circuit, c.output).empty() &&
+                                   compare_own_and_node(c, *inspection, "by inspection", simulated->magnitude, "simulated");
     if (linearised && simulated) {
         auto cmp = compare("linearised-vs-simulated", *linearised, simulated->magnitude, tol);
         out.comparisons.push_back(cmp);
@@ -218,16 +216,14 @@ void reconcile_output(const Context& c, const OwnResistance* own_solve, const Li
     if (inspection && simulated) {
         auto cmp = compare("inspection-vs-simulated", *inspection, simulated->magnitude, tol);
         out.comparisons.push_back(cmp);
-        if (!cmp.agrees && !linearised) {
+        if (!cmp.agrees && !linearised && !told_by_structure) {
             auto [severity, why] = simulation_cause(c, *simulated, *inspection, nullptr);
             if (severity == Severity::error) severity = Severity::warning;  // the formula may be the one at fault
-            // A node the netlist shows loaded has been reported as such (loaded-output) above.
-            if (why.code != CauseCode::devices_on_output)
-                c.add(FindingCode::inspection_vs_simulated, severity,
-                      {V::of("inspection", cmp.first, Unit::ohm), V::of("simulated", cmp.second, Unit::ohm),
-                       V::of("difference", cmp.difference, Unit::relation), V::words("source", simulated->source),
-                       tolerance},
-                      why);
+            c.add(FindingCode::inspection_vs_simulated, severity,
+                  {V::of("inspection", cmp.first, Unit::ohm), V::of("simulated", cmp.second, Unit::ohm),
+                   V::of("difference", cmp.difference, Unit::relation), V::words("source", simulated->source),
+                   tolerance},
+                  why);
         }
     }
 }

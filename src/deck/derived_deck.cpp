@@ -9,7 +9,9 @@
 #include <fmt/format.h>
 
 #include "parsers/common/errors.hpp"
+#include "parsers/common/text.hpp"
 #include "src/deck/deck_errors.hpp"
+#include "src/deck/deck_text.hpp"
 
 namespace mirrorcheck {
 namespace {
@@ -34,30 +36,22 @@ bool left_out(const Card& card) {
     return false;
 }
 
-// The file's physical lines, each with its own line break (CR LF kept).
-std::vector<std::string> physical_lines(const fs::path& path) {
-    std::ifstream in(path, std::ios::binary);
-    if (!in) throw errors::cannot_open(path.string(), "it was read a moment ago but cannot be opened again");
-    std::ostringstream s;
-    s << in.rdbuf();
-    const std::string text = s.str();
-    std::vector<std::string> lines;
-    std::size_t pos = 0;
-    while (pos < text.size()) {
-        std::size_t eol = text.find('\n', pos);
-        std::size_t end = eol == std::string::npos ? text.size() : eol + 1;
-        lines.push_back(text.substr(pos, end - pos));
-        pos = end;
+// The 1-based numbers of the lines holding `.nodeset` or `.ic` cards.
+std::vector<std::size_t> initial_condition_lines(const std::vector<std::string>& lines) {
+    std::vector<std::size_t> found;
+    for (std::size_t n = 1; n <= lines.size(); ++n) {
+        const std::string keyword = first_word(lines[n - 1]);
+        if (keyword == ".nodeset" || keyword == ".ic") found.push_back(n);
     }
-    if (!lines.empty() && lines.back().back() != '\n') lines.back() += '\n';
-    return lines;
+    return found;
 }
 
 std::string quoted(const fs::path& p) { return "\"" + p.string() + "\""; }
 
 class Deriver {
 public:
-    Deriver(const netlist::FlatNetlist& netlist, const fs::path& folder) : netlist_(netlist), folder_(folder) {}
+    Deriver(const netlist::FlatNetlist& netlist, const fs::path& folder, const DeriveEdits& edits)
+        : netlist_(netlist), folder_(folder), edits_(edits) {}
 
     DerivedDeck run() {
         for (const ReadFile& f : netlist_.files) roles_.emplace(f.path, f.role);
@@ -73,7 +67,8 @@ public:
         for (const auto& [original, copy] : copies_) {
             (void)copy;
             if (original == top_) continue;
-            copies_[original] = folder_ / fmt::format("include{}-{}", ++k, original.filename().string());
+            copies_[original] =
+                folder_ / fmt::format("{}include{}-{}", edits_.copy_prefix, ++k, original.filename().string());
         }
         for (const auto& [original, copy] : copies_) {
             std::string text = derive(original);
@@ -86,6 +81,7 @@ public:
 private:
     const netlist::FlatNetlist& netlist_;
     fs::path folder_;
+    const DeriveEdits& edits_;
     fs::path top_;
     std::map<fs::path, ReadFile::Role> roles_;
     std::map<fs::path, fs::path> copies_;  // original -> copy (the top's is filled by the caller)
@@ -108,6 +104,14 @@ private:
             const fs::path file = normal(ref.where.file);
             if (ref.via_working_folder && role_of(file) != ReadFile::Role::library) copies_[file];
         }
+        for (const auto& element : edits_.elements_out) {
+            const fs::path file = normal(element.file);
+            if (role_of(file) != ReadFile::Role::library) copies_[file];
+        }
+        if (edits_.initial_conditions_out)
+            for (const ReadFile& f : netlist_.files)
+                if (f.role != ReadFile::Role::library && !initial_condition_lines(physical_lines(f.path)).empty())
+                    copies_[f.path];
         // Every includer of a copied file is copied too, so that it can name the copy.
         for (bool grown = true; grown;) {
             grown = false;
@@ -141,6 +145,12 @@ private:
             else if (card.kind == Card::Kind::end && original == top_)
                 comment(card.first.line, card.last_line, "*(the review's lines follow) ");
         }
+        for (const auto& element : edits_.elements_out)
+            if (normal(element.file) == original && element.line > 0)
+                comment(element.line, last_physical_line(lines, element.line), edits_.why.c_str());
+        if (edits_.initial_conditions_out)
+            for (std::size_t n : initial_condition_lines(lines))
+                comment(n, last_physical_line(lines, n), edits_.why.c_str());
         std::string text;
         for (const auto& l : lines) text += l;
         return text;
@@ -151,8 +161,9 @@ private:
 
 std::string to_string(const LeftOutCard& card) { return fmt::format("{}:{}: {}", card.file, card.line, card.card); }
 
-DerivedDeck derive_deck(const netlist::FlatNetlist& netlist, const std::filesystem::path& folder) {
-    return Deriver(netlist, folder).run();
+DerivedDeck derive_deck(const netlist::FlatNetlist& netlist, const std::filesystem::path& folder,
+                        const DeriveEdits& edits) {
+    return Deriver(netlist, folder, edits).run();
 }
 
 }  // namespace mirrorcheck

@@ -51,9 +51,19 @@ struct DerivedDeck {
     std::vector<LeftOutCard> left_out; // in reading order
 };
 
+// More to leave out, for a testbench of part of the deck (alone_deck.hpp).
+struct DeriveEdits {
+    // Element lines (their first physical line) to leave out, with their continuation lines.
+    std::vector<netlist::FileLine> elements_out;
+    std::string why = "*(left out) ";  // what each such line is prefixed with
+    bool initial_conditions_out = false;  // also `.nodeset` and `.ic` lines
+    std::string copy_prefix;              // the included copies are named "<prefix>include<k>-<name>"
+};
+
 // The copies for `netlist`, the included ones named after their originals in `folder`.
 // Throws InputError "input.cannot-open" when a file cannot be read again, and
 // "prepare.card-in-library" for a left-out card inside a library section.
-DerivedDeck derive_deck(const netlist::FlatNetlist& netlist, const std::filesystem::path& folder);
+DerivedDeck derive_deck(const netlist::FlatNetlist& netlist, const std::filesystem::path& folder,
+                        const DeriveEdits& edits = {});
 
 }  // namespace mirrorcheck

@@ -107,3 +107,22 @@ TEST_CASE("derived copies: a card to leave out inside a library section is refus
         CHECK(e.where().line == 3);
     }
 }
+
+TEST_CASE("derived copies for a testbench: element lines left out with their continuations, and .nodeset, .ic") {
+    Folders f;
+    f.write("parts.inc", "R9 9 0 1k\nR8 8 0\n* a comment between\n\n+ 2k\nR7 7 0 3k\n.nodeset v(7)=1\n");
+    const auto top = f.write("deck.cir", "title\nV1 1 0 1\n.include parts.inc\n.IC v(1)=1\nR1 1 0\n+ 1k\n.end\n");
+    const auto netlist = mirrorcheck::netlist::read_netlist(top);
+    mirrorcheck::DeriveEdits edits;
+    edits.elements_out = {{(f.user / "parts.inc").string(), 2}, {top.string(), 5}};
+    edits.why = "*(out) ";
+    edits.initial_conditions_out = true;
+    edits.copy_prefix = "bench1-";
+    const auto d = mirrorcheck::derive_deck(netlist, f.work, edits);
+    REQUIRE(d.included.size() == 1);
+    CHECK(d.included[0].path == f.work / "bench1-include1-parts.inc");
+    CHECK(d.included[0].text ==
+          "R9 9 0 1k\n*(out) R8 8 0\n*(out) * a comment between\n*(out) \n*(out) + 2k\nR7 7 0 3k\n*(out) .nodeset v(7)=1\n");
+    CHECK(d.top == "title\nV1 1 0 1\n.include \"" + (f.work / "bench1-include1-parts.inc").string() +
+                       "\"\n*(out) .IC v(1)=1\n*(out) R1 1 0\n*(out) + 1k\n*(the review's lines follow) .end\n");
+}

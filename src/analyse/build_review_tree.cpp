@@ -111,6 +111,8 @@ private:
                 r.own_held = own.held;
             }
         if (r.own.node.empty()) r.own.node = to_lower(oi.node);
+        for (const auto& own : p_.simulated_own)
+            if (own.mirror == m.id && own.node == to_lower(oi.node)) r.own_simulated = own;
         if (const auto* lin = at_node(p_.linearised, oi.node)) r.linearised = *lin;
         else r.linearised.node = to_lower(oi.node);
         if (const auto* sim = at_node(p_.simulated, oi.node)) r.simulated = *sim;

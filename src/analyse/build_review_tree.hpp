@@ -23,6 +23,7 @@ struct ReviewParts {
     const std::vector<LinearisedImpedance>& linearised;  // by output node
     const std::vector<SolveNote>& solve_notes;           // the solve's circuit-level notes, once
     const std::vector<SimulatedImpedance>& simulated;    // by output node
+    const std::vector<SimulatedOwn>& simulated_own;      // by mirror and output
     const Reconciliation& reconciliation;
     std::vector<Finding> findings;  // of every pass, waivers applied
     std::vector<std::string> assumptions;

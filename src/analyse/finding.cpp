@@ -112,6 +112,12 @@ const std::vector<FindingCodeInfo>& finding_catalogue() {
          "remove the stale waiver",
          "The waiver at {place} (`{waiver}`) waives no finding: nothing matches it, or an earlier waiver already "
          "covers what it matches."},
+        {C::own_vs_simulated, "own-vs-simulated", S::warning, "warning, or error when no benign cause explains it",
+         17, "the exact solve of the mirror alone and ngspice's run of the testbench of the mirror alone disagree",
+         "read the cause in the message; keep the deck (`run --keep DIR`) and run its testbench of the mirror "
+         "alone by hand",
+         "The mirror's own Rout at {node} from the exact solve ({own}) is {difference} ngspice's run of the mirror "
+         "alone ({simulated}, {source}): {cause}."},
     };
     return rows;
 }

@@ -38,8 +38,9 @@ enum class FindingCode {
     not_linearised,
     not_simulated,
     waiver_unused,
+    own_vs_simulated,
 };
-inline constexpr std::size_t finding_code_count = 16;
+inline constexpr std::size_t finding_code_count = 17;
 
 // "out-of-saturation", ...: the stable name that JSON, JUnit and waiver files use.
 std::string_view to_string(FindingCode code);

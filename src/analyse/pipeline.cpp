@@ -11,6 +11,7 @@
 #include "src/analyse/linearise.hpp"
 #include "src/analyse/own_resistance.hpp"
 #include "src/analyse/reconcile.hpp"
+#include "src/analyse/simulated_own.hpp"
 #include "src/model/op_point_build.hpp"
 #include "src/recognise/find_mirrors.hpp"
 
@@ -99,9 +100,12 @@ ReviewThresholds thresholds_of(const ReviewSettings& s) {
 
 }  // namespace
 
-ReviewTree run_review(const Circuit& circuit, const OpPoint& given_op, const std::vector<SimulationPlot>& plots,
+ReviewTree run_review(const Circuit& circuit, const OpPoint& given_op, const std::vector<SimulationPlot>& all_plots,
                       const ReviewSettings& settings, const ReviewInputs& inputs) {
     OpPoint op = given_op;
+    // The runs of the mirrors alone are read by their own pass; every other pass reads the circuit's.
+    std::vector<SimulationPlot> alone_plots, plots;
+    for (const SimulationPlot& p : all_plots) (is_alone_plot(p) ? alone_plots : plots).push_back(p);
     const std::vector<std::string> no_gmb = assume_missing_gmb_zero(op);
     const std::vector<Mirror> mirrors = find_mirrors(circuit);
     require_transistor_quantities(op, circuit, transistors_of(circuit, mirrors));
@@ -112,13 +116,14 @@ ReviewTree run_review(const Circuit& circuit, const OpPoint& given_op, const std
         compute_linearised_impedances(circuit, op, linearise_targets(mirrors), ac_frequencies(plots));
     const std::vector<SimulatedImpedance> simulated =
         find_simulated_impedances(circuit, plots, output_nodes(mirrors), settings.simulated);
+    const std::vector<SimulatedOwn> simulated_own = find_simulated_own(alone_plots, mirrors);
     const ReconcileOptions reconcile{settings.tolerance, !plots.empty(), no_gmb, settings.min_impedance,
                                      settings.min_impedance_by_node};
     const Reconciliation reconciliation =
-        reconcile_resistances(circuit, mirrors, inspection, own, linearised.outputs, simulated, reconcile);
+        reconcile_resistances(circuit, mirrors, inspection, own, simulated_own, linearised.outputs, simulated, reconcile);
 
     ReviewParts parts{circuit, op, mirrors, inspection, own, linearised.outputs, linearised.notes, simulated,
-                      reconciliation, inspection.findings, {}, inputs, thresholds_of(settings), names};
+                      simulated_own, reconciliation, inspection.findings, {}, inputs, thresholds_of(settings), names};
     if (!no_gmb.empty()) {
         std::string listed;
         for (std::size_t k = 0; k < no_gmb.size() && k < 6; ++k)

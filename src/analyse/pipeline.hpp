@@ -30,7 +30,8 @@ struct ReviewSettings {
 
 // Recognises the mirrors, checks that the operating point has what they need, inspects
 // them, solves the linearised circuit at their outputs, reads the simulated impedance at
-// each output from `plots` (AC and .tf results; may be empty), reconciles the three, marks
+// each output from `plots` (AC and .tf results; may be empty) and ngspice's value of each
+// mirror alone from the runs of its testbench among them, reconciles them all, marks
 // the findings the waivers accept, and joins it all into one tree.
 // Throws InputError "op.missing-parameters" naming what is missing (a MOS device that lacks
 // only gmb is reviewed with gmb = 0, and a finding says so).

@@ -8,6 +8,12 @@
 //   inspection vs own          the hand formula's error: what it neglects (a device out of
 //                              saturation, an approximation, a gate or base that is not AC
 //                              ground); a warning
+//   own vs simulated alone     the exact solve of the mirror alone against ngspice's run of
+//                              the testbench of the mirror alone (alone_deck.cpp): the same
+//                              network at the same op, so a disagreement is one of the
+//                              causes of linearised vs simulated below
+//   inspection vs simulated    only when there is no exact solve of the mirror alone: as
+//     alone                    inspection vs own
 //   own vs linearised          what the circuit adds at the node: a load (the node's
 //                              impedance below the mirror's own) or feedback (above it, or
 //                              negative); information, not a defect. A warning only against
@@ -161,8 +167,8 @@ bool compare_own_and_node(const Context& c, double own, const char* own_from, do
     return loaded || fed_back;
 }
 
-void reconcile_output(const Context& c, const OwnResistance* own_solve, const LinearisedImpedance* lin,
-                      const SimulatedImpedance* sim, OutputReconciliation& out) {
+void reconcile_output(const Context& c, const OwnResistance* own_solve, const SimulatedOwn* own_sim,
+                      const LinearisedImpedance* lin, const SimulatedImpedance* sim, OutputReconciliation& out) {
     const double tol = c.options.tolerance;
     const RoutEstimate& best = c.oi.best();
     const std::optional<double> inspection = best.value > 0 ? std::optional<double>(best.value) : std::nullopt;
@@ -193,6 +199,29 @@ void reconcile_output(const Context& c, const OwnResistance* own_solve, const Li
                    V::of("difference", cmp.difference, Unit::relation), tolerance},
                   formula_cause(c, cmp));
     }
+    const SimulatedValue* alone = own_sim && own_sim->value ? &*own_sim->value : nullptr;
+    if (own && alone) {
+        auto cmp = compare("own-vs-simulated-alone", *own, alone->magnitude, tol);
+        out.comparisons.push_back(cmp);
+        if (!cmp.agrees) {
+            auto [severity, why] = simulation_cause(c, *alone, *own, nullptr);
+            c.add(FindingCode::own_vs_simulated, severity,
+                  {V::of("own", cmp.first, Unit::ohm), V::of("simulated", cmp.second, Unit::ohm),
+                   V::of("difference", cmp.difference, Unit::relation), V::words("source", alone->source), tolerance},
+                  why);
+        }
+    }
+    if (inspection && !own && alone) {
+        auto cmp = compare("inspection-vs-simulated-alone", *inspection, alone->magnitude, tol);
+        out.comparisons.push_back(cmp);
+        if (!cmp.agrees)
+            c.add(FindingCode::inspection_vs_own, Severity::warning,
+                  {V::of("inspection", cmp.first, Unit::ohm), V::of("own", cmp.second, Unit::ohm),
+                   V::of("difference", cmp.difference, Unit::relation), tolerance},
+                  formula_cause(c, cmp));
+    }
+    if (own_sim && !alone && !own_sim->note.empty() && c.options.simulation_given)
+        c.add(FindingCode::not_simulated, Severity::info, {V::words("note", own_sim->note + " (the mirror alone)")});
     if (own && linearised && lin->scope != "mirror devices only") {
         out.comparisons.push_back(compare("own-vs-linearised", *own, *linearised, tol));
         compare_own_and_node(c, *own, "the mirror alone, solved exactly", *linearised, "linearised, in the circuit");
@@ -235,7 +264,8 @@ const T* at_node(const std::vector<T>& values, const std::string& node) {
     return nullptr;
 }
 
-const OwnResistance* own_of(const std::vector<OwnResistance>& own, const std::string& mirror, const std::string& node) {
+template <typename T>
+const T* own_of(const std::vector<T>& own, const std::string& mirror, const std::string& node) {
     for (const auto& o : own)
         if (o.mirror == mirror && o.node == to_lower(node)) return &o;
     return nullptr;
@@ -251,6 +281,7 @@ std::optional<double> ReconcileOptions::min_impedance_at(const std::string& node
 
 Reconciliation reconcile_resistances(const Circuit& circuit, const std::vector<Mirror>& mirrors,
                                      const InspectionResult& inspection, const std::vector<OwnResistance>& own,
+                                     const std::vector<SimulatedOwn>& simulated_own,
                                      const std::vector<LinearisedImpedance>& linearised,
                                      const std::vector<SimulatedImpedance>& simulated,
                                      const ReconcileOptions& options) {
@@ -261,7 +292,8 @@ Reconciliation reconcile_resistances(const Circuit& circuit, const std::vector<M
         for (std::size_t j = 0; j < m.outputs.size() && j < mi.outputs.size(); ++j) {
             OutputReconciliation out{m.id, m.outputs[j].node, {}};
             Context c{circuit, m, m.outputs[j], mi, mi.outputs[j], options, result.findings};
-            reconcile_output(c, own_of(own, m.id, out.node), at_node(linearised, out.node),
+            reconcile_output(c, own_of(own, m.id, out.node), own_of(simulated_own, m.id, out.node),
+                             at_node(linearised, out.node),
                              at_node(simulated, out.node), out);
             result.outputs.push_back(std::move(out));
         }

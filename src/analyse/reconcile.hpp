@@ -14,6 +14,7 @@
 #include "src/analyse/linearise.hpp"
 #include "src/analyse/own_resistance.hpp"
 #include "src/analyse/simulated_impedance.hpp"
+#include "src/analyse/simulated_own.hpp"
 #include "src/model/circuit.hpp"
 #include "src/recognise/find_mirrors.hpp"
 
@@ -31,8 +32,9 @@ struct ReconcileOptions {
 // One pair of values. `difference` is first/second - 1: the second is the reference
 // (own for inspection, linearised for own, simulated for the others).
 struct ResistanceComparison {
-    std::string pair;  // "inspection-vs-own", "own-vs-linearised", "linearised-vs-simulated",
-                       // "inspection-vs-simulated"
+    std::string pair;  // "inspection-vs-own", "own-vs-simulated-alone", "own-vs-linearised",
+                       // "linearised-vs-simulated", "inspection-vs-simulated",
+                       // "inspection-vs-simulated-alone"
     double first = 0, second = 0;
     double difference = 0;
     bool agrees = true;
@@ -50,9 +52,10 @@ struct Reconciliation {
 };
 
 // Compares the values of every output of `mirrors` (inspection.mirrors in the same order);
-// own by mirror and output, linearised and simulated by output node.
+// own and simulated_own by mirror and output, linearised and simulated by output node.
 Reconciliation reconcile_resistances(const Circuit& circuit, const std::vector<Mirror>& mirrors,
                                      const InspectionResult& inspection, const std::vector<OwnResistance>& own,
+                                     const std::vector<SimulatedOwn>& simulated_own,
                                      const std::vector<LinearisedImpedance>& linearised,
                                      const std::vector<SimulatedImpedance>& simulated,
                                      const ReconcileOptions& options);

@@ -19,6 +19,7 @@
 #include "src/analyse/linearise.hpp"
 #include "src/analyse/reconcile.hpp"
 #include "src/analyse/simulated_impedance.hpp"
+#include "src/analyse/simulated_own.hpp"
 
 namespace mirrorcheck {
 
@@ -93,6 +94,7 @@ struct ReviewResistance {
     // is compared with; the devices it covered and the nets it held, ngspice names.
     LinearisedImpedance own;
     std::vector<std::string> own_devices, own_held;
+    SimulatedOwn own_simulated;      // ngspice's run of the testbench of the mirror alone
     LinearisedImpedance linearised;  // the node in the circuit
     SimulatedImpedance simulated;
     std::vector<ResistanceComparison> comparisons;

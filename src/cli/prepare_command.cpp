@@ -28,6 +28,7 @@ struct DeckRequest {
     std::string mode = "injected";
     std::string from = "1Hz", to = "1GHz";
     int points_per_decade = 10;
+    bool no_alone = false;
 };
 
 void add_deck_options(CLI::App& cmd, DeckRequest& r) {
@@ -40,6 +41,9 @@ void add_deck_options(CLI::App& cmd, DeckRequest& r) {
     cmd.add_option("--to", r.to, "last AC frequency (default 1GHz)");
     cmd.add_option("--points-per-decade", r.points_per_decade, "AC points per decade (default 10)")
         ->check(CLI::Range(1, 1000));
+    cmd.add_flag("--no-alone", r.no_alone,
+                 "do not measure each mirror alone (by default the deck also runs, for every mirror, a testbench "
+                 "of the mirror by itself at the circuit's operating point)");
 }
 
 DeckOptions deck_options(const DeckRequest& r) {
@@ -50,6 +54,7 @@ DeckOptions deck_options(const DeckRequest& r) {
     if (!(options.from > 0) || !(options.to > options.from))
         throw usage::sweep_not_upwards(r.from, r.to);
     options.points_per_decade = r.points_per_decade;
+    options.alone = !r.no_alone;
     return options;
 }
 
@@ -70,10 +75,15 @@ Prepared prepare_deck(const DeckRequest& r, DeckOptions options, const fs::path&
         for (const fs::path& written : {p.deck.path, fs::path(raw_path)})
             if (fs::exists(written) && fs::equivalent(written, f.path))
                 throw usage::would_overwrite_input(written.string(), f.path.string());
-    for (const auto& copy : p.deck.included)
+    std::vector<fs::path> written;
+    for (const auto& copy : p.deck.included) written.push_back(copy.path);
+    for (const auto& bench : p.deck.alone.benches) {
+        written.push_back(bench.path);
+        for (const auto& copy : bench.included) written.push_back(copy.path);
+    }
+    for (const auto& path : written)
         for (const auto& f : netlist.files)
-            if (fs::exists(copy.path) && fs::equivalent(copy.path, f.path))
-                throw usage::copy_would_overwrite_input(copy.path.string());
+            if (fs::exists(path) && fs::equivalent(path, f.path)) throw usage::copy_would_overwrite_input(path.string());
     save_review_deck(p.deck);
     return p;
 }
@@ -106,6 +116,13 @@ int run_prepare(const PrepareRequest& r) {
     for (const auto& pr : deck.probes) std::cout << fmt::format("  {:<14} {} ({})\n", pr.source, pr.node, pr.mirror);
     for (const auto& copy : deck.included)
         std::cout << fmt::format("also a derived copy of {}: {}\n", copy.original.string(), copy.path.string());
+    if (!deck.alone.benches.empty())
+        std::cout << "and the testbenches of the mirrors alone, which the deck runs after the circuit:\n";
+    for (const auto& bench : deck.alone.benches) {
+        std::cout << fmt::format("  {} ({})\n", bench.path.string(), bench.mirror);
+        for (const auto& copy : bench.included)
+            std::cout << fmt::format("    with a derived copy of {}: {}\n", copy.original.string(), copy.path.string());
+    }
     if (!deck.left_out.empty()) {
         std::cout << "left out of the review deck (the review runs its own analyses):\n";
         for (const auto& line : left_out_lines(deck)) std::cout << "  " << line << "\n";
@@ -190,7 +207,11 @@ void add_prepare_command(CLI::App& app, int& status) {
         "become absolute; then it saves every transistor's operating-point parameters and\n"
         "measures each mirror output's impedance in an AC run of its own, through a probe\n"
         "that carries no DC current (so no bias point moves), with the netlist's own AC\n"
-        "sources at zero. It lists what it left out. Run ngspice in the netlist's folder;\n"
+        "sources at zero. Then, for every mirror, it runs a testbench of the mirror alone\n"
+        "(DECK-STEM.aloneN.cir, written beside the deck: the deck with every element not part\n"
+        "of the mirror left out, each net the mirror touches held at its operating voltage or\n"
+        "fed its operating current) and measures each output's own resistance with .tf.\n"
+        "It lists what it left out. Run ngspice in the netlist's folder;\n"
         "it writes DECK-STEM.raw beside the deck; `review DECK --op DECK-STEM.raw` reads it.\n\n"
         "Examples:\n"
         "  mirrorcheck prepare samples/tamarack/bias.cir -o /tmp/bias_review.cir\n"

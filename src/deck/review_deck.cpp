@@ -17,6 +17,9 @@
 //   per output: alter its probe's acmag to 1, ac dec ..., write RAW, alter back to 0;
 //     injected mode also `tf v(N) imc_probe<k>`, write RAW (the DC value from ngspice's
 //     own transfer-function analysis)
+//   the testbench of every mirror alone, run after the circuit's (alone_deck.cpp): the op
+//     voltages it needs kept right after the op, then each bench sourced, set to them and
+//     measured with `.tf`, written to RAW
 //   quit 0                           (a batch run otherwise exits 1, HANDCALC.md section 4)
 //   .endc
 //   .end
@@ -41,18 +44,13 @@
 #include "parsers/common/text.hpp"
 #include "src/analyse/simulated_impedance.hpp"
 #include "src/deck/deck_errors.hpp"
+#include "src/deck/deck_names.hpp"
 #include "src/model/op_point_build.hpp"
 
 namespace mirrorcheck {
 namespace {
 
 namespace fs = std::filesystem;
-
-// A path as an ngspice control command takes it.
-std::string command_path(const fs::path& p) {
-    std::string s = p.string();
-    return s.find_first_of(" \t") == std::string::npos ? s : "\"" + s + "\"";
-}
 
 // Appends `save` commands of at most about 200 characters each.
 void write_saves(std::string& out, const std::vector<std::string>& vectors) {
@@ -65,12 +63,6 @@ void write_saves(std::string& out, const std::vector<std::string>& vectors) {
         line += " " + v;
     }
     if (!line.empty()) out += "save" + line + "\n";
-}
-
-std::string unique_name(const Circuit& circuit, const std::string& wanted) {
-    std::string name = wanted;
-    for (int k = 2; circuit.find_device(name) || circuit.find_net(name); ++k) name = fmt::format("{}_{}", wanted, k);
-    return name;
 }
 
 std::size_t count_lines(const std::string& text) { return static_cast<std::size_t>(std::count(text.begin(), text.end(), '\n')); }
@@ -120,7 +112,7 @@ void write_probes(std::string& out, const Circuit& circuit, const std::vector<Mi
 }
 
 void write_control(std::string& out, const Circuit& circuit, const DeckOptions& options,
-                   const std::vector<DeckProbe>& probes) {
+                   const std::vector<DeckProbe>& probes, const AloneBenches& alone) {
     out += ".control\nsave all\n";
     std::vector<std::string> saves;
     for (const Device& d : circuit.devices()) {
@@ -133,6 +125,7 @@ void write_control(std::string& out, const Circuit& circuit, const DeckOptions& 
     write_saves(out, saves);
     const std::string raw = command_path(options.raw_path);
     out += fmt::format("op\nwrite {}\nset appendwrite\n", raw);
+    out += keep_operating_voltages(alone);
     for (const DeckProbe& p : probes) out += fmt::format("alter @{}[acmag]=0\n", p.source);
     const auto stimuli = ac_stimuli(circuit, probes);
     if (!stimuli.empty()) out += "* the deck's own AC stimuli stay at zero in every probe run\n";
@@ -146,6 +139,7 @@ void write_control(std::string& out, const Circuit& circuit, const DeckOptions& 
         else if (p.kind == DeckProbe::Kind::injected)
             out += fmt::format("tf v({}) {}\nwrite {}\n", p.node, p.source, raw);
     }
+    out += run_alone_benches(alone, raw);
     out += "quit 0\n.endc\n.end\n";
 }
 
@@ -186,7 +180,9 @@ ReviewDeck write_review_deck(const netlist::FlatNetlist& netlist, const Circuit&
     for (DeckProbe& p : deck.probes)
         if (p.added) p.line += before;
     out += appended;
-    write_control(out, circuit, options, deck.probes);
+    if (options.alone) deck.alone = write_alone_benches(netlist, circuit, mirrors, deck.path);
+    write_control(out, circuit, options, deck.probes, deck.alone);
+    deck.notes.insert(deck.notes.end(), deck.alone.notes.begin(), deck.alone.notes.end());
 
     if (deck.probes.empty()) deck.notes.push_back("no mirror outputs found: the deck only saves the operating point");
     return deck;
@@ -202,6 +198,10 @@ void save_review_deck(const ReviewDeck& deck) {
     fs::create_directories(deck.path.parent_path(), ec);
     write(deck.path, deck.text);
     for (const DerivedFile& f : deck.included) write(f.path, f.text);
+    for (const AloneBench& b : deck.alone.benches) {
+        write(b.path, b.text);
+        for (const DerivedFile& f : b.included) write(f.path, f.text);
+    }
 }
 
 void add_deck_probes(Circuit& circuit, const ReviewDeck& deck) {

@@ -14,6 +14,7 @@
 #include <vector>
 
 #include "parsers/netlist/netlist.hpp"
+#include "src/deck/alone_deck.hpp"
 #include "src/deck/derived_deck.hpp"
 #include "src/model/circuit.hpp"
 #include "src/recognise/find_mirrors.hpp"
@@ -35,6 +36,7 @@ struct DeckOptions {
     int points_per_decade = 10;
     std::filesystem::path deck_path;  // where the deck will be written; its folder takes the copies
     std::filesystem::path raw_path;   // the raw file the deck writes
+    bool alone = true;                // also measure each mirror alone (alone_deck.hpp)
 };
 
 struct DeckProbe {
@@ -57,6 +59,7 @@ struct ReviewDeck {
     std::vector<DerivedFile> included;   // derived copies of included files, written beside it
     std::vector<DeckProbe> probes;       // one per output node, in run order
     std::vector<LeftOutCard> left_out;   // what the deck leaves out of the user's files
+    AloneBenches alone;                  // the testbenches of the mirrors alone, written beside it
     std::vector<std::string> notes;      // what the user should know
 };
 
@@ -64,7 +67,7 @@ struct ReviewDeck {
 ReviewDeck write_review_deck(const netlist::FlatNetlist& netlist, const Circuit& circuit,
                              const std::vector<Mirror>& mirrors, const DeckOptions& options);
 
-// Writes the deck and its copies; throws InputError "prepare.cannot-write".
+// Writes the deck, its copies and the testbenches of the mirrors alone; throws InputError "prepare.cannot-write".
 void save_review_deck(const ReviewDeck& deck);
 
 // Adds the probes the deck adds to the netlist to `circuit`, as the devices they are (the

@@ -101,6 +101,9 @@ json rout_json(const ReviewTree& t, const ReviewOutput& o) {
             {"own_note", r.own.note},
             {"own_devices", r.own_devices},
             {"own_held", r.own_held},
+            {"own_simulated", r.own_simulated.value ? number(r.own_simulated.value->magnitude) : json()},
+            {"own_simulated_source", r.own_simulated.value ? json(r.own_simulated.value->source) : json()},
+            {"own_simulated_note", r.own_simulated.note},
             {"linearised", number(r.linearised.resistance)},
             {"linearised_range", r.linearised.resistance_low && r.linearised.resistance_high
                                      ? json::array({*r.linearised.resistance_low, *r.linearised.resistance_high})

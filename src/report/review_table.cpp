@@ -172,10 +172,12 @@ private:
     }
 
     std::string agreement(const ResistanceComparison& c) const {
-        std::string label = c.pair == "inspection-vs-own"         ? "inspection/own"
-                            : c.pair == "own-vs-linearised"       ? "own/node"
-                            : c.pair == "linearised-vs-simulated" ? "linearised/simulated"
-                                                                  : "inspection/simulated";
+        std::string label = c.pair == "inspection-vs-own"               ? "inspection/own"
+                            : c.pair == "own-vs-simulated-alone"        ? "own/alone simulated"
+                            : c.pair == "own-vs-linearised"             ? "own/node"
+                            : c.pair == "linearised-vs-simulated"       ? "linearised/simulated"
+                            : c.pair == "inspection-vs-simulated-alone" ? "inspection/alone simulated"
+                                                                        : "inspection/simulated";
         std::string value;
         if (!std::isfinite(c.difference)) value = "unbounded";
         else if (std::abs(c.difference) < 1.0)
@@ -217,6 +219,10 @@ private:
         } else {
             line(fmt::format("          own         {:>9}  {}", "-", own.note.empty() ? "not computed" : own.note), hang);
         }
+        if (const auto& alone = o.rout.own_simulated.value)
+            line(fmt::format("          alone sim.  {:>9}  ngspice, the testbench of the mirror alone: {}",
+                             format_si(alone->magnitude, "Ω"), alone->source),
+                 hang);
         const LinearisedImpedance& lin = o.rout.linearised;
         if (lin.resistance) {
             const std::string where = lin.scope.empty() || lin.scope == "whole circuit"

@@ -228,6 +228,10 @@ TEST_CASE("run on the corpus mirror decks exactly as they are") {
         for (const json& o : all) {
             CAPTURE(o["node"]);
             CHECK(o["rout"]["simulated"].is_number());
+            // the testbench of the mirror alone, with the kit's cells kept whole, in ngspice
+            REQUIRE_MESSAGE(o["rout"]["own_simulated"].is_number(), o["rout"]["own_simulated_note"]);
+            CHECK(o["rout"]["own_simulated"].get<double>() ==
+                  doctest::Approx(o["rout"]["own"].get<double>()).epsilon(1e-6));
         }
         std::error_code ec;
         fs::permissions(dir, fs::perms::owner_all, fs::perm_options::add, ec);

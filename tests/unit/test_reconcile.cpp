@@ -74,7 +74,7 @@ struct Bench {
         simulated.values = {{6.4e3, 0.0, 1.0, "run.raw: AC Analysis, v(pd)/(-i(vpd)) at 1 Hz"}};
         ReconcileOptions options;
         options.simulation_given = true;
-        return reconcile_resistances(circuit, mirrors, inspection, {}, {none}, {simulated}, options);
+        return reconcile_resistances(circuit, mirrors, inspection, {}, {}, {none}, {simulated}, options);
     }
 };
 

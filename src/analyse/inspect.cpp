@@ -279,19 +279,6 @@ void output_findings(const std::string& mirror, const OutputInspection& o, const
 }
 
 // Every transistor of the mirrors, so that one error lists all that the op lacks.
-std::vector<std::string> transistor_names(const Circuit& circuit, const std::vector<Mirror>& mirrors) {
-    std::vector<std::string> names;
-    auto add = [&](const std::vector<std::size_t>& devices) {
-        for (std::size_t i : devices) names.push_back(circuit.devices()[i].name);
-    };
-    for (const Mirror& m : mirrors) {
-        add(m.reference);
-        add(m.helpers);
-        for (const MirrorOutput& o : m.outputs) add(o.devices);
-    }
-    return names;
-}
-
 std::vector<Finding> collect_findings(const InspectionResult& result, const InspectOptions& options) {
     std::vector<Finding> findings;
     for (const MirrorInspection& m : result.mirrors) {
@@ -332,7 +319,7 @@ DeviceRegion classify_region(const DeviceOp& op, const InspectOptions& options) 
 
 InspectionResult inspect_mirrors(const Circuit& circuit, const OpPoint& op, const std::vector<Mirror>& mirrors,
                                  const InspectOptions& options, const DesignerNames& names) {
-    require_transistor_quantities(op, circuit, transistor_names(circuit, mirrors));
+    require_transistor_quantities(op, circuit, mirror_transistor_names(circuit, mirrors));
     const std::set<std::string> held = source_held_nets(circuit);
     InspectionResult result;
     for (const Mirror& mirror : mirrors) {

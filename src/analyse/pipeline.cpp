@@ -18,22 +18,6 @@
 namespace mirrorcheck {
 namespace {
 
-std::vector<std::string> transistors_of(const Circuit& circuit, const std::vector<Mirror>& mirrors) {
-    std::vector<std::string> names;
-    auto add = [&](std::size_t i) {  // a reference shared by two mirrors is listed once
-        const std::string& name = circuit.devices()[i].name;
-        if (std::find(names.begin(), names.end(), name) == names.end()) names.push_back(name);
-    };
-    for (const auto& m : mirrors) {
-        for (std::size_t i : m.reference) add(i);
-        for (std::size_t i : m.helpers) add(i);
-        for (std::size_t i : m.helper_loads) add(i);
-        for (const auto& o : m.outputs)
-            for (std::size_t i : o.devices) add(i);
-    }
-    return names;
-}
-
 std::vector<std::string> output_nodes(const std::vector<Mirror>& mirrors) {
     std::vector<std::string> nodes;
     for (const auto& m : mirrors)
@@ -108,7 +92,7 @@ ReviewTree run_review(const Circuit& circuit, const OpPoint& given_op, const std
     for (const SimulationPlot& p : all_plots) (is_alone_plot(p) ? alone_plots : plots).push_back(p);
     const std::vector<std::string> no_gmb = assume_missing_gmb_zero(op);
     const std::vector<Mirror> mirrors = find_mirrors(circuit);
-    require_transistor_quantities(op, circuit, transistors_of(circuit, mirrors));
+    require_transistor_quantities(op, circuit, mirror_transistor_names(circuit, mirrors));
     const DesignerNames names = find_designer_names(circuit, mirrors);
     const InspectionResult inspection = inspect_mirrors(circuit, op, mirrors, settings.inspect, names);
     const std::vector<OwnResistance> own = compute_own_resistances(circuit, op, mirrors);

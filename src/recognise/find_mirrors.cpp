@@ -115,4 +115,23 @@ std::vector<Mirror> find_mirrors(const Circuit& circuit) {
     return describe_all(index, found);
 }
 
+std::vector<std::string> mirror_transistor_names(const Circuit& circuit, const std::vector<Mirror>& mirrors) {
+    std::vector<std::string> names;
+    std::vector<bool> listed(circuit.devices().size(), false);
+    auto add = [&](const std::vector<std::size_t>& devices) {
+        for (std::size_t i : devices)
+            if (i < listed.size() && !listed[i]) {
+                listed[i] = true;
+                names.push_back(circuit.devices()[i].name);
+            }
+    };
+    for (const Mirror& m : mirrors) {
+        add(m.reference);
+        add(m.helpers);
+        add(m.helper_loads);
+        for (const MirrorOutput& o : m.outputs) add(o.devices);
+    }
+    return names;
+}
+
 }  // namespace mirrorcheck

@@ -70,4 +70,8 @@ std::string mirror_family_label(const Mirror& mirror);
 // device order.
 std::vector<Mirror> find_mirrors(const Circuit& circuit);
 
+// The ngspice names of every transistor of `mirrors` (references, helpers and their loads,
+// outputs), each once, mirror by mirror.
+std::vector<std::string> mirror_transistor_names(const Circuit& circuit, const std::vector<Mirror>& mirrors);
+
 }  // namespace mirrorcheck

@@ -3,7 +3,9 @@
 // where the schema says so. Fields are only ever added.
 #include "src/report/review_report.hpp"
 
+#include <algorithm>
 #include <cmath>
+#include <string_view>
 
 #include "src/report/finding_text.hpp"
 
@@ -204,24 +206,19 @@ json settings_json(const ReviewThresholds& s) {
             {"fail_on", to_string(s.fail_on)}};
 }
 
-}  // namespace
+json mirror_json(const ReviewTree& t, const ReviewMirror& m) {
+    json outputs = json::array();
+    for (const ReviewOutput& o : m.outputs) outputs.push_back(output_json(t, o));
+    return {{"id", m.id},
+            {"label", m.label},
+            {"family", m.family},
+            {"reference", names_of(t, m.reference)},
+            {"reference_node", text_or_null(m.reference_node)},
+            {"outputs", outputs}};
+}
 
-nlohmann::json review_to_json(const ReviewTree& t) {
-    json mirrors = json::array();
-    for (const ReviewMirror& m : t.mirrors) {
-        json outputs = json::array();
-        for (const ReviewOutput& o : m.outputs) outputs.push_back(output_json(t, o));
-        mirrors.push_back({{"id", m.id},
-                           {"label", m.label},
-                           {"family", m.family},
-                           {"reference", names_of(t, m.reference)},
-                           {"reference_node", text_or_null(m.reference_node)},
-                           {"outputs", outputs}});
-    }
-    json devices = json::array();
-    for (const ReviewDevice& d : t.devices) devices.push_back(device_json(d));
-    json findings = json::array();
-    for (const Finding& f : t.findings) findings.push_back(finding_json(t, f));
+// Every top-level member but the three lists that grow with the circuit.
+json head_json(const ReviewTree& t) {
     const ReviewSummary& s = t.summary;
     json solve_notes = json::array();
     for (const SolveNote& n : t.solve_notes) solve_notes.push_back({{"note", n.text}, {"devices", n.devices}});
@@ -236,9 +233,6 @@ nlohmann::json review_to_json(const ReviewTree& t) {
             {"assumptions", t.assumptions},
             {"notes", t.notes},
             {"linearised_notes", solve_notes},
-            {"mirrors", mirrors},
-            {"devices", devices},
-            {"findings", findings},
             {"summary",
              {{"mirrors", s.mirrors},
               {"outputs", s.outputs},
@@ -248,6 +242,69 @@ nlohmann::json review_to_json(const ReviewTree& t) {
               {"warnings", s.warnings},
               {"infos", s.infos},
               {"waived", s.waived}}}};
+}
+
+// The three lists, element by element: `each(name, element)` for every element in order.
+template <typename Each>
+void for_each_listed(const ReviewTree& t, const std::string& name, Each each) {
+    if (name == "mirrors")
+        for (const ReviewMirror& m : t.mirrors) each(mirror_json(t, m));
+    else if (name == "devices")
+        for (const ReviewDevice& d : t.devices) each(device_json(d));
+    else
+        for (const Finding& f : t.findings) each(finding_json(t, f));
+}
+
+const char* const listed[] = {"mirrors", "devices", "findings"};
+
+std::string dumped(const json& j) { return j.dump(2, ' ', false, json::error_handler_t::replace); }
+
+// `text` with every line after the first indented by `depth` levels of two spaces.
+void put(std::ostream& out, const std::string& text, std::size_t depth) {
+    const std::string pad(2 * depth, ' ');
+    std::size_t from = 0;
+    for (std::size_t eol; (eol = text.find('\n', from)) != std::string::npos; from = eol + 1)
+        out << std::string_view(text).substr(from, eol + 1 - from) << pad;
+    out << std::string_view(text).substr(from);
+}
+
+}  // namespace
+
+nlohmann::json review_to_json(const ReviewTree& t) {
+    json j = head_json(t);
+    for (const char* name : listed) {
+        json list = json::array();
+        for_each_listed(t, name, [&](json e) { list.push_back(std::move(e)); });
+        j[name] = std::move(list);
+    }
+    return j;
+}
+
+void write_review_json(const ReviewTree& t, std::ostream& out) {
+    // The members in the order review_to_json(t).dump(2) gives them (its objects keep their
+    // keys sorted), the three long lists one element at a time: the same text without the
+    // whole document in memory.
+    json head = head_json(t);
+    std::vector<std::string> names;
+    for (const auto& [name, value] : head.items()) names.push_back(name);
+    names.insert(names.end(), std::begin(listed), std::end(listed));
+    std::sort(names.begin(), names.end());
+    out << "{";
+    for (std::size_t k = 0; k < names.size(); ++k) {
+        out << (k ? ",\n  " : "\n  ") << json(names[k]).dump() << ": ";
+        if (head.contains(names[k])) {
+            put(out, dumped(head[names[k]]), 1);
+            continue;
+        }
+        bool first = true;
+        for_each_listed(t, names[k], [&](const json& e) {
+            out << (first ? "[\n    " : ",\n    ");
+            put(out, dumped(e), 2);
+            first = false;
+        });
+        out << (first ? "[]" : "\n  ]");
+    }
+    out << "\n}\n";
 }
 
 }  // namespace mirrorcheck::report

@@ -37,4 +37,8 @@ std::string write_review_table(const ReviewTree& tree, const TableStyle& style =
 // "findings", "summary"}: see README.md "JSON for flows" and docs/report.schema.json.
 nlohmann::json review_to_json(const ReviewTree& tree);
 
+// The same as review_to_json(tree).dump(2) and a line break, written a mirror, a device, a
+// finding at a time (the document of a large circuit is never whole in memory).
+void write_review_json(const ReviewTree& tree, std::ostream& out);
+
 }  // namespace mirrorcheck::report

@@ -17,7 +17,7 @@ void write_review(Format format, const ReviewTree& tree, std::ostream& out, cons
             out << write_review_table(tree, style);
             break;
         case Format::json:
-            out << review_to_json(tree).dump(2, ' ', false, nlohmann::json::error_handler_t::replace) << "\n";
+            write_review_json(tree, out);
             break;
         case Format::junit:
             out << review_to_junit(tree);

@@ -28,15 +28,18 @@ std::optional<double> impedance_of(const Port& port, const Eigen::VectorXd& x) {
 
 }  // namespace
 
-DcSolver::DcSolver(const SmallSignalNetwork& network) : network_(network) {
+DcSolver::DcSolver(const SmallSignalNetwork& network, bool shunt) : network_(network) {
     if (network_.size() == 0) {
         failure_ = "the circuit has no nodes besides ground";
         return;
     }
-    Eigen::SparseMatrix<double> a = network_.conductance_matrix(0.0);
-    lu_.analyzePattern(a);
-    lu_.factorize(a);
-    if (lu_.info() == Eigen::Success) return;
+    Eigen::SparseMatrix<double> a;
+    if (!shunt) {
+        a = network_.conductance_matrix(0.0);
+        lu_.analyzePattern(a);
+        lu_.factorize(a);
+        if (lu_.info() == Eigen::Success) return;
+    }
     // Singular: a node without a DC path to ground. Shunt every node with SPICE's gmin.
     gmin_ = shunt_gmin;
     a = network_.conductance_matrix(gmin_);

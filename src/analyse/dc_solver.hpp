@@ -20,7 +20,9 @@ namespace mirrorcheck {
 // default `gmin` of SPICE, and `note` says so.
 class DcSolver {
 public:
-    explicit DcSolver(const SmallSignalNetwork& network);
+    // With `shunt`, gmin is added from the start (a part of a circuit whose other parts
+    // needed it: the whole circuit is solved with one gmin).
+    explicit DcSolver(const SmallSignalNetwork& network, bool shunt = false);
 
     const std::string& failure() const { return failure_; }  // why G could not be factorised; empty when it could
     const std::string& note() const { return note_; }        // the gmin shunt, when added

@@ -55,6 +55,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <memory>
 #include <numbers>
 #include <set>
 
@@ -98,10 +99,10 @@ void add_solve_notes(LinearisedSolve& solve, const std::string& prefix, const st
 }
 
 // The circuit-level notes of a network that could be solved.
-void note_network(LinearisedSolve& solve, const SmallSignalNetwork& network, const DcSolver& dc,
+void note_network(LinearisedSolve& solve, const SmallSignalNetwork& network, const std::string& dc_note,
                   const std::string& prefix) {
     add_solve_notes(solve, prefix, network.notes);
-    if (!dc.note().empty()) add_solve_note(solve, prefix + dc.note());
+    if (!dc_note.empty()) add_solve_note(solve, prefix + dc_note);
     std::vector<DeviceNote> bounded;
     std::set<std::string> seen;
     for (const auto& b : network.bounded)
@@ -119,11 +120,9 @@ bool spectrum_unavailable(const SmallSignalNetwork& network) {
 }
 
 // Fills spectrum, corner and spectrum_note of results solved on `network` at `nodes`.
-void add_spectrum(LinearisedSolve& solve, const std::vector<LinearisedImpedance*>& results, const std::vector<Port>& nodes,
-                  const SmallSignalNetwork& network, double gmin, const std::vector<double>& frequencies,
-                  const std::string& prefix) {
+void add_spectrum(const std::vector<LinearisedImpedance*>& results, const std::vector<Port>& nodes,
+                  const SmallSignalNetwork& network, double gmin, const std::vector<double>& frequencies) {
     if (results.empty()) return;
-    add_solve_notes(solve, prefix + "against frequency, left out: ", network.storage_left_out);
     if (spectrum_unavailable(network)) {
         for (auto* r : results) r->spectrum_note = "no spectrum: the op data has no capacitances of the transistors";
         return;
@@ -169,6 +168,9 @@ void add_spectrum(LinearisedSolve& solve, const std::vector<LinearisedImpedance*
     for (std::size_t i = 0; i < results.size(); ++i) results[i]->spectrum_note = notes[i];
 }
 
+// Above this many unknowns the whole-circuit network is solved part by part.
+constexpr long split_above = 5000;
+
 // The whole circuit, solved for every target at once. Returns why it could not be (empty
 // when it could).
 std::vector<DeviceNote> solve_whole_circuit(LinearisedSolve& solve, const Circuit& circuit, const OpPoint& op,
@@ -177,29 +179,57 @@ std::vector<DeviceNote> solve_whole_circuit(LinearisedSolve& solve, const Circui
     for (const auto& r : solve.outputs) probed.insert(r.node);
     SmallSignalNetwork network = build_circuit_network(circuit, op, probed);
     if (!network.problems.empty()) return network.problems;
-    DcSolver dc(network);
-    if (!dc.failure().empty()) return {{dc.failure(), {}}};
-    note_network(solve, network, dc, "");
 
-    std::vector<LinearisedImpedance*> solved;
-    std::vector<Port> nodes;
+    // In a large network, each part that nothing joins to another (blocks between held
+    // rails) is factorised and solved alone: one solve per output then costs its part, not
+    // the whole circuit (10k transistors in 2,500 blocks: 2,500 solves of 20k unknowns
+    // otherwise). A small one is solved whole, as splitting gains nothing there (and the
+    // values stay those of one factorisation, to the last digit). One gmin for all: when a
+    // part is singular, every part gets the shunt.
+    SmallSignalNetwork::Split split;
+    if (network.size() > split_above) split = network.split();
+    if (split.parts.size() < 2) split = {};
+    const std::vector<SmallSignalNetwork>& parts = split.parts;
+    std::vector<const SmallSignalNetwork*> networks;
+    if (parts.empty()) networks.push_back(&network);
+    for (const auto& p : parts) networks.push_back(&p);
+    std::vector<std::unique_ptr<DcSolver>> solvers;
+    bool shunt = false;
+    for (int attempt = 0; attempt < 2; ++attempt) {
+        solvers.clear();
+        for (const SmallSignalNetwork* n : networks) {
+            solvers.push_back(std::make_unique<DcSolver>(*n, shunt));
+            if (!solvers.back()->failure().empty()) return {{solvers.back()->failure(), {}}};
+        }
+        const bool any = std::any_of(solvers.begin(), solvers.end(), [](const auto& s) { return s->gmin() > 0; });
+        if (!any || shunt) break;
+        shunt = true;
+    }
+    note_network(solve, network, shunt ? solvers.front()->note() : std::string(), "");
+    add_solve_notes(solve, "against frequency, left out: ", network.storage_left_out);
+
+    std::vector<std::vector<LinearisedImpedance*>> solved(networks.size());
+    std::vector<std::vector<Port>> nodes(networks.size());
     for (auto& r : solve.outputs) {
-        const Port k = r.node == "0" ? Port{} : network.port(r.node);
-        if (k.node < 0) {
+        const Port whole = r.node == "0" ? Port{} : network.port(r.node);
+        if (whole.node < 0) {
             r.note = r.node == "0" ? "the ground node has no impedance" : "no net " + r.node + " in the circuit";
             continue;
         }
-        solve_port(r, dc, k);
+        const std::size_t k = parts.empty() ? 0 : split.part_of[static_cast<std::size_t>(whole.node)];
+        const Port port = networks[k]->port(r.node);
+        solve_port(r, *solvers[k], port);
         if (!r.resistance) {
             r.note = "the solve failed";
             continue;
         }
-        if (k.branch >= 0) r.note = "held by " + k.source + ", the other outputs held by theirs";
+        if (port.branch >= 0) r.note = "held by " + port.source + ", the other outputs held by theirs";
         r.scope = whole_circuit;
-        solved.push_back(&r);
-        nodes.push_back(k);
+        solved[k].push_back(&r);
+        nodes[k].push_back(port);
     }
-    add_spectrum(solve, solved, nodes, network, dc.gmin(), frequencies, "");
+    for (std::size_t k = 0; k < networks.size(); ++k)
+        add_spectrum(solved[k], nodes[k], *networks[k], solvers[k]->gmin(), frequencies);
     return {};
 }
 
@@ -244,8 +274,9 @@ void solve_own_devices(LinearisedSolve& solve, LinearisedImpedance& r, const Lin
     r.note = "whole circuit not linearised (" + why + "); solved on the mirror's own devices " +
              device_list(circuit, target.own_devices) + ", every other net at AC ground";
     const std::string prefix = "mirror's own devices: ";
-    note_network(solve, network, dc, prefix);
-    add_spectrum(solve, {&r}, {k}, network, dc.gmin(), frequencies, prefix);
+    note_network(solve, network, dc.note(), prefix);
+    add_solve_notes(solve, prefix + "against frequency, left out: ", network.storage_left_out);
+    add_spectrum({&r}, {k}, network, dc.gmin(), frequencies);
 }
 
 // The reasons the whole circuit was refused, short: each cause with a few devices.

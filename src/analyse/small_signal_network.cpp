@@ -183,6 +183,68 @@ void SmallSignalNetwork::voltage_branch(long k, long p, long n) {
     add(k, n, -1.0);
 }
 
+SmallSignalNetwork::Split SmallSignalNetwork::split() const {
+    const std::size_t n = static_cast<std::size_t>(size());
+    std::vector<std::size_t> parent(n);
+    for (std::size_t i = 0; i < n; ++i) parent[i] = i;
+    auto root = [&](std::size_t i) {
+        while (parent[i] != i) i = parent[i] = parent[parent[i]];
+        return i;
+    };
+    auto join = [&](const Eigen::Triplet<double>& t) {
+        const std::size_t a = root(static_cast<std::size_t>(t.row())), b = root(static_cast<std::size_t>(t.col()));
+        if (a != b) parent[std::max(a, b)] = std::min(a, b);
+    };
+    for (const auto& t : g_) join(t);
+    for (const auto& t : c_) join(t);
+    for (const auto& b : bounded)
+        for (const auto& end : b.ends)
+            for (const auto& t : end) join(t);
+
+    Split out;
+    out.part_of.resize(n);
+    std::vector<long> local(n);
+    std::vector<std::size_t> index(n, n);  // a root's part
+    for (std::size_t i = 0; i < n; ++i) {
+        std::size_t& k = index[root(i)];
+        if (k == n) {
+            k = out.parts.size();
+            out.parts.emplace_back(std::vector<std::string>{});
+            out.parts.back().has_storage = has_storage;
+            out.parts.back().transistors = transistors;
+            out.parts.back().transistors_with_capacitances = transistors_with_capacitances;
+        }
+        SmallSignalNetwork& p = out.parts[k];
+        out.part_of[i] = k;
+        local[i] = p.node_count_ + p.branch_count_;
+        if (static_cast<long>(i) < node_count_) ++p.node_count_;
+        else ++p.branch_count_;
+    }
+    for (const auto& [net, u] : node_index_)
+        out.parts[out.part_of[static_cast<std::size_t>(u)]].node_index_.emplace(net, local[static_cast<std::size_t>(u)]);
+    for (const auto& [net, port] : probes_) {
+        Port q = port;
+        q.node = local[static_cast<std::size_t>(port.node)];
+        if (port.branch >= 0) q.branch = local[static_cast<std::size_t>(port.branch)];
+        out.parts[out.part_of[static_cast<std::size_t>(port.node)]].probes_.emplace(net, q);
+    }
+    auto moved = [&](const Eigen::Triplet<double>& t) {
+        return Eigen::Triplet<double>(local[static_cast<std::size_t>(t.row())], local[static_cast<std::size_t>(t.col())],
+                                      t.value());
+    };
+    for (const auto& t : g_) out.parts[out.part_of[static_cast<std::size_t>(t.row())]].g_.push_back(moved(t));
+    for (const auto& t : c_) out.parts[out.part_of[static_cast<std::size_t>(t.row())]].c_.push_back(moved(t));
+    for (const auto& b : bounded) {
+        const Eigen::Triplet<double>* first = !b.ends[0].empty() ? &b.ends[0].front() : !b.ends[1].empty() ? &b.ends[1].front() : nullptr;
+        if (!first) continue;
+        BoundedStamp q{b.device, b.quantity, {}};
+        for (std::size_t e = 0; e < 2; ++e)
+            for (const auto& t : b.ends[e]) q.ends[e].push_back(moved(t));
+        out.parts[out.part_of[static_cast<std::size_t>(first->row())]].bounded.push_back(std::move(q));
+    }
+    return out;
+}
+
 Eigen::SparseMatrix<double> SmallSignalNetwork::conductance_matrix(double gmin, const std::vector<int>* ends) const {
     std::vector<Eigen::Triplet<double>> t = g_;
     if (ends)

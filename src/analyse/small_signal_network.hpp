@@ -72,6 +72,15 @@ public:
     // G + j·2·pi·frequency·C, with the same gmin, bounded stamps at their estimates.
     Eigen::SparseMatrix<std::complex<double>> admittance_matrix(double frequency, double gmin) const;
 
+    // The parts of the network that no stamp joins to one another (G, C and the bounded
+    // stamps), in the order of their first unknown, each with its nets, probes, stamps and
+    // bounded stamps, its unknowns renumbered in their order; `part_of` gives each unknown's
+    // part. A circuit of independent blocks (held rails between them) has one part per
+    // block, and each can be solved alone. The notes stay with this network (they concern
+    // the circuit); the transistor counts and has_storage are copied. One pass over the stamps.
+    struct Split;
+    Split split() const;
+
     // Why the network cannot be used (each names the cause and the devices); empty when it can.
     std::vector<DeviceNote> problems;
     // Assumptions that hold at every frequency ("left out (no op conductance)": diodes).
@@ -102,6 +111,11 @@ private:
     long branch_count_ = 0;
     std::vector<Eigen::Triplet<double>> g_;
     std::vector<Eigen::Triplet<double>> c_;
+};
+
+struct SmallSignalNetwork::Split {
+    std::vector<SmallSignalNetwork> parts;
+    std::vector<std::size_t> part_of;  // by unknown of the network split
 };
 
 // True for the terminals that only sense a voltage: MOS gate and bulk, bipolar base and

@@ -5,25 +5,13 @@
 
 #include <algorithm>
 #include <map>
+#include <unordered_map>
 
 #include "parsers/common/text.hpp"
+#include "src/analyse/by_output.hpp"
 
 namespace mirrorcheck {
 namespace {
-
-template <typename T>
-const T* at_node(const std::vector<T>& values, const std::string& node) {
-    for (const auto& v : values)
-        if (v.node == to_lower(node)) return &v;
-    return nullptr;
-}
-
-const OutputReconciliation* reconciliation_of(const Reconciliation& r, const std::string& mirror,
-                                              const std::string& node) {
-    for (const auto& o : r.outputs)
-        if (o.mirror == mirror && o.node == node) return &o;
-    return nullptr;
-}
 
 MosValues mos_values(const DeviceOp& d) {
     return {d.get("id"), d.get("vgs"), d.get("vds"), d.get("vbs"), d.get("vth"),
@@ -38,7 +26,9 @@ BipolarValues bipolar_values(const DeviceOp& d) {
 
 class TreeBuilder {
 public:
-    explicit TreeBuilder(const ReviewParts& parts) : p_(parts) {}
+    explicit TreeBuilder(const ReviewParts& parts)
+        : p_(parts), own_(parts.own), simulated_own_(parts.simulated_own), linearised_(parts.linearised),
+          simulated_(parts.simulated), reconciliation_(parts.reconciliation.outputs) {}
 
     ReviewTree build() {
         tree_.tool = this_tool();
@@ -49,6 +39,7 @@ public:
         tree_.notes = p_.op.notes;
         tree_.solve_notes = p_.solve_notes;
         tree_.findings = p_.findings;
+        tree_.devices.reserve(p_.op.devices.size());  // at most every transistor with op data, once
         for (std::size_t k = 0; k < p_.mirrors.size() && k < p_.inspection.mirrors.size(); ++k)
             tree_.mirrors.push_back(mirror(p_.mirrors[k], p_.inspection.mirrors[k]));
         join_findings(tree_);
@@ -57,6 +48,11 @@ public:
 
 private:
     const ReviewParts& p_;
+    const ByMirrorNode<OwnResistance> own_;
+    const ByMirrorNode<SimulatedOwn> simulated_own_;
+    const ByNode<LinearisedImpedance> linearised_;
+    const ByNode<SimulatedImpedance> simulated_;
+    const ByMirrorNode<OutputReconciliation> reconciliation_;
     ReviewTree tree_;
     std::map<std::size_t, std::size_t> device_index_;  // circuit index -> tree index
 
@@ -104,20 +100,18 @@ private:
                 if (d.device == l.device) index = device(d);
             r.levels.push_back({index, l.ro, l.gm, l.gmb, l.rs, l.rout});
         }
-        for (const auto& own : p_.own)
-            if (own.mirror == m.id && own.node == to_lower(oi.node)) {
-                r.own = own.value;
-                r.own_devices = own.devices;
-                r.own_held = own.held;
-            }
+        if (const auto* own = own_.find(m.id, oi.node)) {
+            r.own = own->value;
+            r.own_devices = own->devices;
+            r.own_held = own->held;
+        }
         if (r.own.node.empty()) r.own.node = to_lower(oi.node);
-        for (const auto& own : p_.simulated_own)
-            if (own.mirror == m.id && own.node == to_lower(oi.node)) r.own_simulated = own;
-        if (const auto* lin = at_node(p_.linearised, oi.node)) r.linearised = *lin;
+        if (const auto* own = simulated_own_.find(m.id, oi.node)) r.own_simulated = *own;
+        if (const auto* lin = linearised_.find(oi.node)) r.linearised = *lin;
         else r.linearised.node = to_lower(oi.node);
-        if (const auto* sim = at_node(p_.simulated, oi.node)) r.simulated = *sim;
+        if (const auto* sim = simulated_.find(oi.node)) r.simulated = *sim;
         else r.simulated.node = to_lower(oi.node);
-        if (const auto* rec = reconciliation_of(p_.reconciliation, m.id, oi.node)) r.comparisons = rec->comparisons;
+        if (const auto* rec = reconciliation_.find(m.id, oi.node)) r.comparisons = rec->comparisons;
         return r;
     }
 
@@ -166,11 +160,14 @@ void join_findings(ReviewTree& tree) {
     tree.summary = ReviewSummary{};
     for (auto& m : tree.mirrors)
         for (auto& o : m.outputs) o.findings.clear();
+    std::unordered_map<std::string, std::vector<ReviewMirror*>> by_id;  // lower-case id
+    for (auto& m : tree.mirrors) by_id[to_lower(m.id)].push_back(&m);
     for (std::size_t k = 0; k < tree.findings.size(); ++k) {
         const Finding& f = tree.findings[k];
         bool placed = false;
-        for (auto& m : tree.mirrors) {
-            if (f.mirror.empty() || !iequals(f.mirror, m.id)) continue;
+        auto mirrors = f.mirror.empty() ? by_id.end() : by_id.find(to_lower(f.mirror));
+        for (ReviewMirror* mp : mirrors == by_id.end() ? std::vector<ReviewMirror*>{} : mirrors->second) {
+            ReviewMirror& m = *mp;
             const bool one_output = std::any_of(m.outputs.begin(), m.outputs.end(),
                                                 [&](const ReviewOutput& o) { return names_output(tree, f, o); });
             for (auto& o : m.outputs)

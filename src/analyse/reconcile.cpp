@@ -36,6 +36,7 @@
 #include <cmath>
 
 #include "parsers/common/text.hpp"
+#include "src/analyse/by_output.hpp"
 
 namespace mirrorcheck {
 namespace {
@@ -257,20 +258,6 @@ void reconcile_output(const Context& c, const OwnResistance* own_solve, const Si
     }
 }
 
-template <typename T>
-const T* at_node(const std::vector<T>& values, const std::string& node) {
-    for (const auto& v : values)
-        if (v.node == to_lower(node)) return &v;
-    return nullptr;
-}
-
-template <typename T>
-const T* own_of(const std::vector<T>& own, const std::string& mirror, const std::string& node) {
-    for (const auto& o : own)
-        if (o.mirror == mirror && o.node == to_lower(node)) return &o;
-    return nullptr;
-}
-
 }  // namespace
 
 std::optional<double> ReconcileOptions::min_impedance_at(const std::string& node) const {
@@ -286,15 +273,18 @@ Reconciliation reconcile_resistances(const Circuit& circuit, const std::vector<M
                                      const std::vector<SimulatedImpedance>& simulated,
                                      const ReconcileOptions& options) {
     Reconciliation result;
+    const ByMirrorNode<OwnResistance> own_at(own);
+    const ByMirrorNode<SimulatedOwn> simulated_own_at(simulated_own);
+    const ByNode<LinearisedImpedance> linearised_at(linearised);
+    const ByNode<SimulatedImpedance> simulated_at(simulated);
     for (std::size_t k = 0; k < mirrors.size() && k < inspection.mirrors.size(); ++k) {
         const Mirror& m = mirrors[k];
         const MirrorInspection& mi = inspection.mirrors[k];
         for (std::size_t j = 0; j < m.outputs.size() && j < mi.outputs.size(); ++j) {
             OutputReconciliation out{m.id, m.outputs[j].node, {}};
             Context c{circuit, m, m.outputs[j], mi, mi.outputs[j], options, result.findings};
-            reconcile_output(c, own_of(own, m.id, out.node), own_of(simulated_own, m.id, out.node),
-                             at_node(linearised, out.node),
-                             at_node(simulated, out.node), out);
+            reconcile_output(c, own_at.find(m.id, out.node), simulated_own_at.find(m.id, out.node),
+                             linearised_at.find(out.node), simulated_at.find(out.node), out);
             result.outputs.push_back(std::move(out));
         }
     }

@@ -4,6 +4,7 @@
 #include "src/analyse/pipeline.hpp"
 
 #include <algorithm>
+#include <iterator>
 
 #include "src/analyse/apply_waivers.hpp"
 #include "src/analyse/build_review_tree.hpp"
@@ -84,12 +85,13 @@ ReviewThresholds thresholds_of(const ReviewSettings& s) {
 
 }  // namespace
 
-ReviewTree run_review(const Circuit& circuit, const OpPoint& given_op, const std::vector<SimulationPlot>& all_plots,
+ReviewTree run_review(const Circuit& circuit, OpPoint op, std::vector<SimulationPlot> plots,
                       const ReviewSettings& settings, const ReviewInputs& inputs) {
-    OpPoint op = given_op;
     // The runs of the mirrors alone are read by their own pass; every other pass reads the circuit's.
-    std::vector<SimulationPlot> alone_plots, plots;
-    for (const SimulationPlot& p : all_plots) (is_alone_plot(p) ? alone_plots : plots).push_back(p);
+    std::vector<SimulationPlot> alone_plots;
+    auto alone = std::stable_partition(plots.begin(), plots.end(), [](const SimulationPlot& p) { return !is_alone_plot(p); });
+    std::move(alone, plots.end(), std::back_inserter(alone_plots));
+    plots.erase(alone, plots.end());
     const std::vector<std::string> no_gmb = assume_missing_gmb_zero(op);
     const std::vector<Mirror> mirrors = find_mirrors(circuit);
     require_transistor_quantities(op, circuit, mirror_transistor_names(circuit, mirrors));

@@ -35,7 +35,9 @@ struct ReviewSettings {
 // the findings the waivers accept, and joins it all into one tree.
 // Throws InputError "op.missing-parameters" naming what is missing (a MOS device that lacks
 // only gmb is reviewed with gmb = 0, and a finding says so).
-ReviewTree run_review(const Circuit& circuit, const OpPoint& op, const std::vector<SimulationPlot>& plots,
+// `op` and `plots` are taken by value: a caller done with them moves them in (a large
+// circuit's op data and AC plots are not held twice).
+ReviewTree run_review(const Circuit& circuit, OpPoint op, std::vector<SimulationPlot> plots,
                       const ReviewSettings& settings, const ReviewInputs& inputs = {});
 
 // The same without simulation results.

@@ -130,8 +130,8 @@ int review_with(const ReviewOptions& o, const ReviewSettings& settings, const Ci
     if (!o.op_name.empty() && op.origin.rfind(o.op, 0) == 0) op.origin = o.op_name + op.origin.substr(o.op.size());
     std::vector<std::string> simulation_files;
     std::vector<SimulationPlot> plots = read_simulation_plots(o, simulation_files);
-    const ReviewTree tree =
-        run_review(circuit, op, plots, settings, ReviewInputs{o.netlist, op.origin, simulation_files, left_out});
+    ReviewInputs inputs{o.netlist, op.origin, simulation_files, left_out};
+    const ReviewTree tree = run_review(circuit, std::move(op), std::move(plots), settings, std::move(inputs));
     const Terminal terminal = stdout_terminal();
     report::TableStyle style{terminal.width, terminal.colour, o.summary};
     report::write_review(report::parse_format(o.format).value_or(report::Format::table), tree, std::cout, style);

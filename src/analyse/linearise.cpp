@@ -55,7 +55,6 @@
 
 #include <algorithm>
 #include <cmath>
-#include <memory>
 #include <numbers>
 #include <set>
 
@@ -193,43 +192,48 @@ std::vector<DeviceNote> solve_whole_circuit(LinearisedSolve& solve, const Circui
     std::vector<const SmallSignalNetwork*> networks;
     if (parts.empty()) networks.push_back(&network);
     for (const auto& p : parts) networks.push_back(&p);
-    std::vector<std::unique_ptr<DcSolver>> solvers;
+    // First every part factorised once, to know whether any needs the shunt, then each part
+    // again to be solved: only one part's factorisation is held at a time.
     bool shunt = false;
-    for (int attempt = 0; attempt < 2; ++attempt) {
-        solvers.clear();
-        for (const SmallSignalNetwork* n : networks) {
-            solvers.push_back(std::make_unique<DcSolver>(*n, shunt));
-            if (!solvers.back()->failure().empty()) return {{solvers.back()->failure(), {}}};
-        }
-        const bool any = std::any_of(solvers.begin(), solvers.end(), [](const auto& s) { return s->gmin() > 0; });
-        if (!any || shunt) break;
-        shunt = true;
+    for (const SmallSignalNetwork* n : networks) {
+        const DcSolver dc(*n);
+        if (!dc.failure().empty()) return {{dc.failure(), {}}};
+        shunt = shunt || dc.gmin() > 0;
     }
-    note_network(solve, network, shunt ? solvers.front()->note() : std::string(), "");
-    add_solve_notes(solve, "against frequency, left out: ", network.storage_left_out);
 
-    std::vector<std::vector<LinearisedImpedance*>> solved(networks.size());
-    std::vector<std::vector<Port>> nodes(networks.size());
+    std::vector<std::vector<LinearisedImpedance*>> targets(networks.size());
     for (auto& r : solve.outputs) {
         const Port whole = r.node == "0" ? Port{} : network.port(r.node);
         if (whole.node < 0) {
             r.note = r.node == "0" ? "the ground node has no impedance" : "no net " + r.node + " in the circuit";
             continue;
         }
-        const std::size_t k = parts.empty() ? 0 : split.part_of[static_cast<std::size_t>(whole.node)];
-        const Port port = networks[k]->port(r.node);
-        solve_port(r, *solvers[k], port);
-        if (!r.resistance) {
-            r.note = "the solve failed";
-            continue;
-        }
-        if (port.branch >= 0) r.note = "held by " + port.source + ", the other outputs held by theirs";
-        r.scope = whole_circuit;
-        solved[k].push_back(&r);
-        nodes[k].push_back(port);
+        targets[parts.empty() ? 0 : split.part_of[static_cast<std::size_t>(whole.node)]].push_back(&r);
     }
-    for (std::size_t k = 0; k < networks.size(); ++k)
-        add_spectrum(solved[k], nodes[k], *networks[k], solvers[k]->gmin(), frequencies);
+    std::string shunt_note;
+    for (std::size_t k = 0; k < networks.size(); ++k) {
+        if (targets[k].empty() && !(shunt && shunt_note.empty())) continue;
+        DcSolver dc(*networks[k], shunt);
+        if (!dc.failure().empty()) return {{dc.failure(), {}}};
+        if (shunt_note.empty()) shunt_note = dc.note();
+        std::vector<LinearisedImpedance*> solved;
+        std::vector<Port> nodes;
+        for (LinearisedImpedance* r : targets[k]) {
+            const Port port = networks[k]->port(r->node);
+            solve_port(*r, dc, port);
+            if (!r->resistance) {
+                r->note = "the solve failed";
+                continue;
+            }
+            if (port.branch >= 0) r->note = "held by " + port.source + ", the other outputs held by theirs";
+            r->scope = whole_circuit;
+            solved.push_back(r);
+            nodes.push_back(port);
+        }
+        add_spectrum(solved, nodes, *networks[k], dc.gmin(), frequencies);
+    }
+    note_network(solve, network, shunt ? shunt_note : std::string(), "");
+    add_solve_notes(solve, "against frequency, left out: ", network.storage_left_out);
     return {};
 }
 

@@ -191,15 +191,17 @@ void reconcile_output(const Context& c, const OwnResistance* own_solve, const Si
     if (!simulated && sim && c.options.simulation_given)
         c.add(FindingCode::not_simulated, Severity::info, {V::words("note", sim->note)});
 
-    if (inspection && own) {
-        auto cmp = compare("inspection-vs-own", *inspection, *own, tol);
+    // The hand formula against the mirror's own resistance: the exact solve's, else ngspice's.
+    auto against_own = [&](const char* pair, double own_value) {
+        auto cmp = compare(pair, *inspection, own_value, tol);
         out.comparisons.push_back(cmp);
         if (!cmp.agrees)
             c.add(FindingCode::inspection_vs_own, Severity::warning,
                   {V::of("inspection", cmp.first, Unit::ohm), V::of("own", cmp.second, Unit::ohm),
                    V::of("difference", cmp.difference, Unit::relation), tolerance},
                   formula_cause(c, cmp));
-    }
+    };
+    if (inspection && own) against_own("inspection-vs-own", *own);
     const SimulatedValue* alone = own_sim && own_sim->value ? &*own_sim->value : nullptr;
     if (own && alone) {
         auto cmp = compare("own-vs-simulated-alone", *own, alone->magnitude, tol);
@@ -212,15 +214,7 @@ void reconcile_output(const Context& c, const OwnResistance* own_solve, const Si
                   why);
         }
     }
-    if (inspection && !own && alone) {
-        auto cmp = compare("inspection-vs-simulated-alone", *inspection, alone->magnitude, tol);
-        out.comparisons.push_back(cmp);
-        if (!cmp.agrees)
-            c.add(FindingCode::inspection_vs_own, Severity::warning,
-                  {V::of("inspection", cmp.first, Unit::ohm), V::of("own", cmp.second, Unit::ohm),
-                   V::of("difference", cmp.difference, Unit::relation), tolerance},
-                  formula_cause(c, cmp));
-    }
+    if (inspection && !own && alone) against_own("inspection-vs-simulated-alone", alone->magnitude);
     if (own_sim && !alone && !own_sim->note.empty() && c.options.simulation_given)
         c.add(FindingCode::not_simulated, Severity::info, {V::words("note", own_sim->note + " (the mirror alone)")});
     if (own && linearised && lin->scope != "mirror devices only") {

@@ -28,6 +28,12 @@ std::string first_word(std::string_view line) {
     return to_lower(line.substr(0, line.find_first_of(" \t\r\n")));
 }
 
+std::filesystem::path normal(const std::string& file) {
+    std::error_code ec;
+    auto a = std::filesystem::absolute(file, ec);
+    return (ec ? std::filesystem::path(file) : a).lexically_normal();
+}
+
 std::vector<std::string> physical_lines(const std::filesystem::path& path) {
     std::ifstream in(path, std::ios::binary);
     if (!in) throw errors::cannot_open(path.string(), "it was read a moment ago but cannot be opened again");

@@ -11,6 +11,10 @@
 
 namespace mirrorcheck {
 
+// A file name as the netlist reader names files: absolute and normal (as given when it
+// cannot be made absolute).
+std::filesystem::path normal(const std::string& file);
+
 // The file's physical lines, each with its own line break (CR LF kept; one is added to a
 // last line without). Throws InputError "input.cannot-open" when it cannot be read.
 std::vector<std::string> physical_lines(const std::filesystem::path& path);

@@ -20,12 +20,6 @@ namespace fs = std::filesystem;
 using netlist::Card;
 using netlist::ReadFile;
 
-fs::path normal(const std::string& file) {
-    std::error_code ec;
-    auto a = fs::absolute(file, ec);
-    return (ec ? fs::path(file) : a).lexically_normal();
-}
-
 bool left_out(const Card& card) {
     switch (card.kind) {
         case Card::Kind::control_block:

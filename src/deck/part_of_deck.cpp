@@ -27,12 +27,6 @@ namespace {
 namespace fs = std::filesystem;
 using netlist::ReadFile;
 
-fs::path normal(const std::string& file) {
-    std::error_code ec;
-    auto a = fs::absolute(file, ec);
-    return (ec ? fs::path(file) : a).lexically_normal();
-}
-
 // One element line at some depth, with the devices under it.
 struct ElementLine {
     netlist::FileLine where;

@@ -4,10 +4,12 @@
 #include <algorithm>
 #include <array>
 #include <cctype>
+#include <unordered_map>
 #include <unordered_set>
 
 #include "parsers/common/text.hpp"
 #include "parsers/netlist/expression.hpp"
+#include "parsers/netlist/id_table.hpp"
 #include "parsers/netlist/netlist_errors.hpp"
 
 namespace mirrorcheck::netlist::detail {
@@ -24,7 +26,8 @@ struct Instance {
     // first): {"x1001_t", "x1"} names a resistor `r.x1001_t.r.x1.r1`.
     std::vector<std::string> segments;
     std::unordered_map<std::string, std::string> ports;   // port name -> the caller's net
-    std::vector<FlatInstance> hierarchy;
+    std::uint32_t id = no_index;  // its FlatInstance; no_index at the top
+    std::size_t depth = 0;        // X lines above it
     // The `m` ngspice 39 writes onto every device line of this instance (see flatten.hpp).
     std::optional<double> forced_m;
 };
@@ -57,10 +60,42 @@ struct Element {
     // The line's text after the given positional token.
     std::string text_after(std::size_t i) const {
         std::size_t from = i < count() ? positional(i).end : 0;
-        std::string rest = line->text.substr(std::min(from, line->text.size()));
+        std::string rest(line->text.substr(std::min(from, line->text.size())));
         auto first = rest.find_first_not_of(" \t");
         return first == std::string::npos ? std::string{} : rest.substr(first);
     }
+};
+
+// A few name -> value pairs, in the order first set; setting a name again replaces its value.
+template <class V>
+struct SmallMap {
+    std::vector<std::pair<std::string, V>> items;
+
+    V& operator[](std::string_view key) {
+        if (V* v = find(key)) return *v;
+        return items.emplace_back(std::string(key), V{}).second;
+    }
+    V* find(std::string_view key) {
+        for (auto& [name, value] : items)
+            if (name == key) return &value;
+        return nullptr;
+    }
+    const V* find(std::string_view key) const { return const_cast<SmallMap*>(this)->find(key); }
+    bool empty() const { return items.empty(); }
+};
+
+// The device being built from its element line, before it goes into the netlist's tables.
+struct Draft {
+    ElementKind kind = ElementKind::other;
+    std::string name;
+    std::size_t local_length = 0;
+    std::vector<std::pair<std::string, std::string>> terminals;  // role, net
+    SmallMap<double> parameters;
+    SmallMap<std::string> text;
+    std::optional<double> value;
+    std::optional<std::size_t> model;
+
+    char letter() const { return name[name.size() - local_length]; }
 };
 
 ValueText token_value(const LogicalLine& line, const Token& t) {
@@ -159,10 +194,9 @@ void define_functions(const std::vector<FunctionDef>& functions, Scope& scope) {
     }
 }
 
-std::optional<double> parameter_of(const FlatDevice& d, const std::string& name) {
-    auto it = d.parameters.find(name);
-    if (it == d.parameters.end()) return std::nullopt;
-    return it->second;
+std::optional<double> parameter_of(const Draft& d, std::string_view name) {
+    if (const double* v = d.parameters.find(name)) return *v;
+    return std::nullopt;
 }
 
 std::optional<double> find_parameter(const std::vector<NamedValue>& list, std::string_view name, const Scope& scope) {
@@ -249,6 +283,7 @@ public:
         define_functions(deck_.top.functions, top.scope);
         collect_multiplied(deck_.top);
         out_.devices.reserve(deck_.top.elements.size());
+        device_names_.reserve(deck_.top.elements.size());
         evaluate_params(deck_.top.params, top.scope);
         expand(top);
         out_.title = deck_.title;
@@ -262,7 +297,11 @@ public:
 private:
     const Deck& deck_;
     FlatNetlist out_;
-    std::unordered_set<std::string> device_names_;
+    IdTable device_names_;  // out_.devices by name
+    IdTable nets_;          // out_.nets
+    IdTable words_;         // out_.words
+    std::unordered_map<const std::string*, std::uint32_t> source_files_;  // into out_.source_files
+    Draft draft_;           // the device being built
     std::unordered_map<std::string, std::size_t> models_;  // index into out_.models, by ngspice name
     std::unordered_set<std::string> multiplied_;  // subcircuits that some X line gives an m
 
@@ -326,7 +365,7 @@ private:
         if (nodes != def->ports.size()) throw errors::wrong_node_count(el.at(name_token), el.name, def->ports.size(), nodes);
         for (const Instance* i = &inst; i; i = i->caller)
             if (i->def == def) throw errors::recursive_subckt(el.at(name_token), subckt);
-        if (inst.hierarchy.size() >= max_depth) throw errors::hierarchy_too_deep(el.at(name_token), max_depth);
+        if (inst.depth >= max_depth) throw errors::hierarchy_too_deep(el.at(name_token), max_depth);
 
         Instance child;
         child.def = def;
@@ -336,8 +375,9 @@ private:
         child.segments = inst.segments;
         if (child.segments.empty() || def->parent != &deck_.top) child.segments.push_back(el.name);
         else child.segments.back() += "." + el.name;
-        child.hierarchy = inst.hierarchy;
-        child.hierarchy.push_back({el.name, subckt, {*el.line->file, el.line->first_line()}});
+        child.depth = inst.depth + 1;
+        child.id = static_cast<std::uint32_t>(out_.instances.size());
+        out_.instances.push_back({el.name, subckt, {el.line->file(), el.line->first_line()}, inst.id});
         for (std::size_t i = 0; i < nodes; ++i) child.ports[def->ports[i]] = net_name(inst, node_token(el, i, ""));
 
         define_functions(def->functions, child.scope);
@@ -402,7 +442,7 @@ private:
         return t.kind == TokenKind::word && find_model(inst, to_lower(t.text)).owner != nullptr;
     }
 
-    std::size_t resolve_model(const Instance& inst, const Element& el, const Token& t, const FlatDevice& device) {
+    std::size_t resolve_model(const Instance& inst, const Element& el, const Token& t, const Draft& device) {
         std::string name = to_lower(t.text);
         ModelHome home = find_model(inst, name);
         if (!home.owner) throw errors::unknown_model(el.at(t), name);
@@ -416,7 +456,7 @@ private:
     }
 
     const ModelCard* choose_bin(const Instance& owner, const Element& el, const Token& t, const std::string& name,
-                                const std::vector<std::string>& bins, const FlatDevice& device) {
+                                const std::vector<std::string>& bins, const Draft& device) {
         auto l = parameter_of(device, "l");
         auto w = parameter_of(device, "w");
         if (!l || !w) throw errors::unknown_model(el.at(t), name);
@@ -446,7 +486,7 @@ private:
         model->name = name;
         model->ngspice_name = ngspice_name;
         model->type = card.type;
-        model->source = {*card.line->file, card.line->first_line()};
+        model->source = {card.line->file(), card.line->first_line()};
         for (const NamedValue& nv : card.parameters) {
             if (const std::string* text = string_value(nv.value, scope)) {
                 model->text[nv.name] = *text;
@@ -470,23 +510,26 @@ private:
 
     // ---- devices -----------------------------------------------------------------------
 
-    FlatDevice start_device(const Instance& inst, const Element& el, ElementKind kind) const {
-        FlatDevice d;
+    Draft& start_device(const Instance& inst, const Element& el, ElementKind kind) {
+        Draft& d = draft_;
         d.kind = kind;
         d.name = device_name(inst, el.name);
-        d.local_name = el.name;
-        d.hierarchy = inst.hierarchy;
-        d.source = {*el.line->file, el.line->first_line()};
+        d.local_length = el.name.size();
+        d.terminals.clear();
+        d.parameters.items.clear();
+        d.text.items.clear();
+        d.value.reset();
+        d.model.reset();
         return d;
     }
 
-    void connect(const Instance& inst, const Element& el, FlatDevice& d, std::size_t first,
+    void connect(const Instance& inst, const Element& el, Draft& d, std::size_t first,
                  std::initializer_list<const char*> roles, std::string_view expected) const {
         std::size_t i = first;
         for (const char* role : roles) d.terminals.push_back({role, net_name(inst, node_token(el, i++, expected))});
     }
 
-    void connect_n(const Instance& inst, const Element& el, FlatDevice& d, std::size_t count,
+    void connect_n(const Instance& inst, const Element& el, Draft& d, std::size_t count,
                    const std::array<const char*, 6>& roles) const {
         for (std::size_t i = 0; i < count; ++i)
             d.terminals.push_back({roles[i], net_name(inst, node_token(el, i, ""))});
@@ -498,23 +541,60 @@ private:
         return evaluate(token_value(*el.line, t), inst.scope);
     }
 
-    void named_parameters(const Instance& inst, const Element& el, FlatDevice& d) const {
+    void named_parameters(const Instance& inst, const Element& el, Draft& d) const {
         for (const NamedValue& nv : el.parts.named) d.parameters[nv.name] = evaluate(nv.value, inst.scope);
     }
 
-    static void apply_multiplier(const Instance& inst, FlatDevice& d) {
+    static void apply_multiplier(const Instance& inst, Draft& d) {
         static constexpr std::string_view takes_m = "rcldqjigfm";
-        if (inst.forced_m && takes_m.find(d.local_name[0]) != std::string_view::npos) d.parameters["m"] = *inst.forced_m;
+        if (inst.forced_m && takes_m.find(d.letter()) != std::string_view::npos) d.parameters["m"] = *inst.forced_m;
     }
 
     void add(const Instance& inst, const Element& el) {
-        FlatDevice d = build(inst, el);
-        apply_multiplier(inst, d);
-        if (!device_names_.insert(d.name).second) throw errors::duplicate_device(el.line->locate(0), d.name);
-        out_.devices.push_back(std::move(d));
+        build(inst, el);
+        apply_multiplier(inst, draft_);
+        commit(inst, el, draft_);
     }
 
-    FlatDevice build(const Instance& inst, const Element& el) {
+    std::uint32_t intern(IdTable& table, std::vector<std::string>& values, std::string_view text) {
+        const auto next = static_cast<std::uint32_t>(values.size());
+        const std::uint32_t id = table.insert(text, next, [&](std::uint32_t i) -> std::string_view { return values[i]; });
+        if (id == next) values.emplace_back(text);
+        return id;
+    }
+
+    std::uint32_t source_file(const std::string& file) {
+        auto [it, inserted] = source_files_.try_emplace(&file, static_cast<std::uint32_t>(out_.source_files.size()));
+        if (inserted) out_.source_files.push_back(file);
+        return it->second;
+    }
+
+    // Moves the draft into the netlist's tables.
+    void commit(const Instance& inst, const Element& el, Draft& d) {
+        const auto index = static_cast<std::uint32_t>(out_.devices.size());
+        if (device_names_.insert(d.name, index, [&](std::uint32_t i) -> std::string_view { return out_.devices[i].name; }) != index)
+            throw errors::duplicate_device(el.line->locate(0), d.name);
+        FlatDevice& f = out_.devices.emplace_back();
+        f.kind = d.kind;
+        f.name = std::move(d.name);
+        f.local_length = static_cast<std::uint32_t>(d.local_length);
+        f.instance = inst.id;
+        if (d.model) f.model = static_cast<std::uint32_t>(*d.model);
+        f.file = source_file(el.line->file());
+        f.line = static_cast<std::uint32_t>(el.line->first_line());
+        f.value = d.value;
+        f.terminals = {static_cast<std::uint32_t>(out_.terminal_table.size()), static_cast<std::uint32_t>(d.terminals.size())};
+        for (const auto& [role, net] : d.terminals)
+            out_.terminal_table.push_back({intern(words_, out_.words, role), intern(nets_, out_.nets, net)});
+        f.parameters = {static_cast<std::uint32_t>(out_.parameter_table.size()),
+                        static_cast<std::uint32_t>(d.parameters.items.size())};
+        for (const auto& [name, value] : d.parameters.items)
+            out_.parameter_table.push_back({intern(words_, out_.words, name), value});
+        f.texts = {static_cast<std::uint32_t>(out_.text_table.size()), static_cast<std::uint32_t>(d.text.items.size())};
+        for (auto& [key, text] : d.text.items) out_.text_table.push_back({key, std::move(text)});
+    }
+
+    void build(const Instance& inst, const Element& el) {
         switch (el.letter) {
             case 'r': return passive(inst, el, ElementKind::resistor, {"r", "resistance"});
             case 'c': return passive(inst, el, ElementKind::capacitor, {"c", "capacitance"});
@@ -544,8 +624,8 @@ private:
         }
     }
 
-    FlatDevice passive(const Instance& inst, const Element& el, ElementKind kind, std::array<const char*, 2> value_keys) {
-        FlatDevice d = start_device(inst, el, kind);
+    void passive(const Instance& inst, const Element& el, ElementKind kind, std::array<const char*, 2> value_keys) {
+        Draft& d = start_device(inst, el, kind);
         connect(inst, el, d, 0, {"pos", "neg"}, "two nodes");
         std::size_t i = 2;
         if (i < el.count() && names_model(inst, el.positional(i))) {
@@ -562,12 +642,11 @@ private:
         }
         for (std::size_t m = 2; m < i; ++m)
             if (names_model(inst, el.positional(m))) d.model = resolve_model(inst, el, el.positional(m), d);
-        return d;
     }
 
     // A value that reads node voltages or currents (`r={v(x)}`) makes the element nonlinear:
     // it is recorded as an expression, as for B sources.
-    void main_value(const ValueText& v, const Instance& inst, FlatDevice& d) const {
+    void main_value(const ValueText& v, const Instance& inst, Draft& d) const {
         try {
             Expression e = Expression::compile(v.text);
             if (e.reads_circuit()) d.text["expression"] = v.text;
@@ -583,8 +662,8 @@ private:
         return names.count(word) != 0;
     }
 
-    FlatDevice source(const Instance& inst, const Element& el, ElementKind kind) {
-        FlatDevice d = start_device(inst, el, kind);
+    void source(const Instance& inst, const Element& el, ElementKind kind) {
+        Draft& d = start_device(inst, el, kind);
         connect(inst, el, d, 0, {"pos", "neg"}, "two nodes");
         std::size_t i = 2;
         auto is_value = [&](std::size_t k) { return k < el.count() && el.positional(k).is_value(); };
@@ -628,9 +707,8 @@ private:
             }
         }
         named_parameters(inst, el, d);
-        if (auto it = d.parameters.find("dc"); it != d.parameters.end() && !d.value) d.value = it->second;
+        if (const double* dc = d.parameters.find("dc"); dc && !d.value) d.value = *dc;
         if (d.value) d.parameters["dc"] = *d.value;
-        return d;
     }
 
     // Reads `poly ( n )` at positional i; returns n and moves i past it.
@@ -645,8 +723,8 @@ private:
         return static_cast<std::size_t>(n);
     }
 
-    FlatDevice voltage_controlled(const Instance& inst, const Element& el, ElementKind kind) {
-        FlatDevice d = start_device(inst, el, kind);
+    void voltage_controlled(const Instance& inst, const Element& el, ElementKind kind) {
+        Draft& d = start_device(inst, el, kind);
         connect(inst, el, d, 0, {"pos", "neg"}, "two output nodes");
         static const std::unordered_set<std::string> keywords{"value", "vol", "cur", "table", "laplace", "freq",
                                                               "and", "or", "nand", "nor"};
@@ -669,11 +747,10 @@ private:
             d.value = value_at(inst, el, 4);
             named_parameters(inst, el, d);
         }
-        return d;
     }
 
-    FlatDevice current_controlled(const Instance& inst, const Element& el, ElementKind kind) {
-        FlatDevice d = start_device(inst, el, kind);
+    void current_controlled(const Instance& inst, const Element& el, ElementKind kind) {
+        Draft& d = start_device(inst, el, kind);
         connect(inst, el, d, 0, {"pos", "neg"}, "two output nodes");
         std::size_t i = 2;
         std::size_t controls = 1;
@@ -691,29 +768,26 @@ private:
             d.value = value_at(inst, el, i);
             named_parameters(inst, el, d);
         }
-        return d;
     }
 
-    FlatDevice behavioural(const Instance& inst, const Element& el) {
-        FlatDevice d = start_device(inst, el, ElementKind::behavioural);
+    void behavioural(const Instance& inst, const Element& el) {
+        Draft& d = start_device(inst, el, ElementKind::behavioural);
         connect(inst, el, d, 0, {"pos", "neg"}, "two nodes");
         d.text["expression"] = el.text_after(1);
-        return d;
     }
 
-    FlatDevice coupling(const Instance& inst, const Element& el) {
-        FlatDevice d = start_device(inst, el, ElementKind::coupling);
+    void coupling(const Instance& inst, const Element& el) {
+        Draft& d = start_device(inst, el, ElementKind::coupling);
         for (std::size_t k = 0; k < 2; ++k) {
             const Token& t = node_token(el, k, "two inductor names and a coupling factor");
             d.text["inductor" + std::to_string(k + 1)] = device_name(inst, to_lower(t.text));
         }
         if (el.count() < 3) throw errors::missing_nodes(el.end(), el.name, "a coupling factor after the inductors");
         d.value = value_at(inst, el, 2);
-        return d;
     }
 
-    FlatDevice with_model(const Instance& inst, const Element& el, ElementKind kind, std::initializer_list<const char*> roles) {
-        FlatDevice d = start_device(inst, el, kind);
+    void with_model(const Instance& inst, const Element& el, ElementKind kind, std::initializer_list<const char*> roles) {
+        Draft& d = start_device(inst, el, kind);
         connect(inst, el, d, 0, roles, "nodes and a model name");
         std::size_t i = roles.size();
         if (i >= el.count()) throw errors::missing_nodes(el.end(), el.name, "a model name after the nodes");
@@ -723,12 +797,11 @@ private:
             d.parameters["area"] = value_at(inst, el, i + 1);
         named_parameters(inst, el, d);
         d.model = resolve_model(inst, el, model, d);
-        return d;
     }
 
-    FlatDevice transistor(const Instance& inst, const Element& el, ElementKind kind, std::initializer_list<std::size_t> counts,
+    void transistor(const Instance& inst, const Element& el, ElementKind kind, std::initializer_list<std::size_t> counts,
                       const std::array<const char*, 6>& roles) {
-        FlatDevice d = start_device(inst, el, kind);
+        Draft& d = start_device(inst, el, kind);
         std::size_t nodes = 0;
         for (std::size_t n : counts)
             if (n < el.count() && names_model(inst, el.positional(n))) {
@@ -746,38 +819,35 @@ private:
         named_parameters(inst, el, d);
         if (kind == ElementKind::mosfet) scale_geometry(d);
         d.model = resolve_model(inst, el, el.positional(nodes), d);
-        return d;
     }
 
-    void scale_geometry(FlatDevice& d) const {
+    void scale_geometry(Draft& d) const {
         if (deck_.scale == 1) return;
         for (const char* key : {"w", "l", "pd", "ps"})
-            if (auto it = d.parameters.find(key); it != d.parameters.end()) it->second *= deck_.scale;
+            if (double* v = d.parameters.find(key)) *v *= deck_.scale;
         for (const char* key : {"ad", "as"})
-            if (auto it = d.parameters.find(key); it != d.parameters.end()) it->second *= deck_.scale * deck_.scale;
+            if (double* v = d.parameters.find(key)) *v *= deck_.scale * deck_.scale;
     }
 
-    FlatDevice current_switch(const Instance& inst, const Element& el) {
-        FlatDevice d = start_device(inst, el, ElementKind::other);
+    void current_switch(const Instance& inst, const Element& el) {
+        Draft& d = start_device(inst, el, ElementKind::other);
         connect(inst, el, d, 0, {"pos", "neg"}, "two nodes, the controlling source and a model");
         const Token& control = node_token(el, 2, "the controlling voltage source");
         d.text["control"] = device_name(inst, to_lower(control.text));
         if (el.count() < 4) throw errors::missing_nodes(el.end(), el.name, "a model name after the controlling source");
         d.model = resolve_model(inst, el, el.positional(3), d);
-        return d;
     }
 
-    FlatDevice opaque(const Instance& inst, const Element& el, std::initializer_list<const char*> roles) {
-        FlatDevice d = start_device(inst, el, ElementKind::other);
+    void opaque(const Instance& inst, const Element& el, std::initializer_list<const char*> roles) {
+        Draft& d = start_device(inst, el, ElementKind::other);
         connect(inst, el, d, 0, roles, std::to_string(roles.size()) + " nodes");
         d.text["line"] = el.text_after(roles.size() - 1);
-        return d;
     }
 
     // XSPICE `A` devices: nodes (possibly in [ ] vectors, with %v %d ... modifiers) and a
     // model last. The nets are kept; the connection semantics are not interpreted.
-    FlatDevice xspice(const Instance& inst, const Element& el) {
-        FlatDevice d = start_device(inst, el, ElementKind::other);
+    void xspice(const Instance& inst, const Element& el) {
+        Draft& d = start_device(inst, el, ElementKind::other);
         if (el.count() < 2) throw errors::missing_nodes(el.end(), el.name, "connections and a model name");
         std::size_t port = 0;
         for (std::size_t i = 0; i + 1 < el.count(); ++i) {
@@ -790,7 +860,6 @@ private:
         const Token& model = el.positional(el.count() - 1);
         if (names_model(inst, model)) d.model = resolve_model(inst, el, model, d);
         d.text["line"] = el.text_after(0);
-        return d;
     }
 };
 

@@ -14,10 +14,13 @@
 #pragma once
 
 #include <cstddef>
+#include <cstdint>
 #include <filesystem>
 #include <map>
 #include <optional>
+#include <span>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "parsers/common/input_error.hpp"
@@ -48,29 +51,54 @@ struct FlatModel {
     FileLine source;
 };
 
-// One X line on the way from the top level to a device.
+inline constexpr std::uint32_t no_index = 0xffffffff;
+
+// One X line on the way from the top level to a device: an instance of a subcircuit.
 struct FlatInstance {
     std::string instance;  // lower case, as written ("xm1")
     std::string subckt;
     FileLine source;
+    std::uint32_t parent = no_index;  // the instance it sits in; no_index at the top level
 };
 
+// A device's terminals, parameters and texts are kept in tables of the netlist, every net
+// and parameter name once (a million-element deck reads into well under 300 MB); read
+// them through FlatNetlist's accessors.
 struct FlatTerminal {
-    std::string role;  // d g s b, c b e s, pos neg, ...
-    std::string net;   // ngspice's flattened net name; ground is "0"
+    std::uint32_t role = 0;  // into FlatNetlist::words: d g s b, c b e s, pos neg, ...
+    std::uint32_t net = 0;   // into FlatNetlist::nets: ngspice's flattened net name; ground is "0"
+};
+
+struct FlatParameter {
+    std::uint32_t name = 0;  // into FlatNetlist::words
+    double value = 0;
+};
+
+struct FlatText {
+    std::string key;  // "transient", "expression", "control", ...
+    std::string text;
+};
+
+struct FlatRange {
+    std::uint32_t first = 0;
+    std::uint32_t count = 0;
 };
 
 struct FlatDevice {
     ElementKind kind = ElementKind::other;
-    std::string name;        // ngspice's flattened name: "m.x1.m2"
-    std::string local_name;  // the name on its own line: "m2"
-    std::vector<FlatInstance> hierarchy;   // outermost first
-    std::vector<FlatTerminal> terminals;   // in the order of the element line
-    std::map<std::string, double> parameters;  // instance parameters, evaluated; MOS geometry scaled
-    std::optional<double> value;               // R, C, L, source dc, gain
-    std::map<std::string, std::string> text;   // "transient", "expression", "control", ...
-    std::optional<std::size_t> model;          // index into FlatNetlist::models
-    FileLine source;
+    std::uint32_t local_length = 0;     // the name on its own line is the last local_length characters
+    std::uint32_t instance = no_index;  // into FlatNetlist::instances: the innermost X line above it
+    std::uint32_t model = no_index;     // into FlatNetlist::models
+    std::uint32_t file = 0;             // into FlatNetlist::source_files
+    std::uint32_t line = 0;             // its element line
+    FlatRange terminals;   // in FlatNetlist::terminal_table, in the order of the element line
+    FlatRange parameters;  // in FlatNetlist::parameter_table: instance parameters, evaluated; MOS geometry scaled
+    FlatRange texts;       // in FlatNetlist::text_table
+    std::optional<double> value;  // R, C, L, source dc, gain
+    std::string name;             // ngspice's flattened name: "m.x1.m2"
+
+    // The name on its own line: "m2".
+    std::string_view local_name() const { return std::string_view(name).substr(name.size() - local_length); }
 };
 
 // A statement that describes no part of the circuit: a `.control` ... `.endc` block, an
@@ -112,6 +140,32 @@ struct FlatNetlist {
     std::vector<FileReference> references;    // in reading order
     std::vector<ReadFile> files;              // in the order first read
     std::optional<double> temperature;        // `.temp`
+
+    // The tables the devices point into.
+    std::vector<FlatInstance> instances;
+    std::vector<std::string> nets;          // each net once
+    std::vector<std::string> words;         // terminal roles and parameter names, each once
+    std::vector<std::string> source_files;  // the files element lines were read from
+    std::vector<FlatTerminal> terminal_table;
+    std::vector<FlatParameter> parameter_table;
+    std::vector<FlatText> text_table;
+
+    std::span<const FlatTerminal> terminals(const FlatDevice& d) const {
+        return {terminal_table.data() + d.terminals.first, d.terminals.count};
+    }
+    std::span<const FlatParameter> parameters(const FlatDevice& d) const {
+        return {parameter_table.data() + d.parameters.first, d.parameters.count};
+    }
+    std::span<const FlatText> texts(const FlatDevice& d) const { return {text_table.data() + d.texts.first, d.texts.count}; }
+    const std::string& net(const FlatTerminal& t) const { return nets[t.net]; }
+    const std::string& role(const FlatTerminal& t) const { return words[t.role]; }
+    const std::string& name(const FlatParameter& p) const { return words[p.name]; }
+    FileLine source(const FlatDevice& d) const { return {source_files[d.file], d.line}; }
+    // The X lines above a device, outermost first.
+    std::vector<const FlatInstance*> hierarchy(const FlatDevice& d) const;
+    // An instance parameter or text by name.
+    std::optional<double> parameter(const FlatDevice& d, std::string_view name) const;
+    const std::string* text(const FlatDevice& d, std::string_view key) const;
 };
 
 // Reads, expands and flattens the netlist at `path`. Throws InputError (codes "netlist.*",

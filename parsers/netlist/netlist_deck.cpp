@@ -32,7 +32,7 @@ ValueText value_of(const LogicalLine& line, const std::vector<Token>& tokens, st
     while (last > first + 1 && tokens[last - 1].is(',')) --last;
     std::size_t begin = tokens[first].offset;
     std::size_t end = tokens[last - 1].end;
-    std::string text = line.text.substr(begin, end - begin);
+    std::string text(line.text.substr(begin, end - begin));
     // A `.model name type (a=1 b=2)` card leaves the closing parenthesis on the last value.
     long depth = 0;
     for (char c : text) depth += c == '(' ? 1 : c == ')' ? -1 : 0;
@@ -44,11 +44,9 @@ ValueText value_of(const LogicalLine& line, const std::vector<Token>& tokens, st
     return {text, &line, begin, false};
 }
 
-std::size_t last_physical_line(const LogicalLine& line) {
-    return line.continued.empty() ? line.first.line : line.continued.back().line;
-}
+std::size_t last_physical_line(const LogicalLine& line) { return line.last_line(); }
 
-FileLine file_line(const LogicalLine& line) { return {line.file ? *line.file : std::string{}, line.first.line}; }
+FileLine file_line(const LogicalLine& line) { return {line.file(), line.first_line()}; }
 
 std::filesystem::path absolute_normal(const std::filesystem::path& p) {
     std::error_code ec;
@@ -135,9 +133,17 @@ private:
             if (library) throw errors::missing_library(*from, path.string(), e.message());
             throw errors::missing_include(*from, path.string(), e.message());
         }
+        const std::size_t size = mapped->bytes().size();
+        if (size > max_netlist_file_bytes)
+            throw errors::file_too_large(from ? *from : Location{path.string()}, path.string(), size,
+                                         max_netlist_file_bytes);
+        // Copied out with pread(): faster than faulting the mapping's pages in (see MappedFile).
+        auto bytes = std::make_unique_for_overwrite<char[]>(size);
+        mapped->copy_out(0, size, bytes.get());
+        mapped.reset();
         deck_.file_names.push_back(path.string());
         deck_.read_files.push_back({absolute_normal(path), role});
-        auto split = std::make_unique<SplitFile>(split_lines(mapped->bytes(), &deck_.file_names.back(), title));
+        auto split = split_lines(std::move(bytes), size, &deck_.file_names.back(), title);
         return *deck_.files.emplace(key, std::move(split)).first->second;
     }
 
@@ -230,7 +236,7 @@ private:
     }
 
     bool condition(const LogicalLine& line, std::size_t after) {
-        std::string text = line.text.substr(after);
+        std::string text(line.text.substr(after));
         for (std::size_t i = 0; i < text.size(); ++i) {
             bool lone = text[i] == '=' && (i == 0 || std::string_view("=<>!").find(text[i - 1]) == std::string_view::npos) &&
                         (i + 1 == text.size() || text[i + 1] != '=');
@@ -270,7 +276,7 @@ private:
             return;
         }
         if (auto kind = card_kind(head)) {
-            deck_.cards.push_back({*kind, head, file_line(line), last_physical_line(line), line.text});
+            deck_.cards.push_back({*kind, head, file_line(line), last_physical_line(line), std::string(line.text)});
             return;
         }
         if (head == ".endc") throw errors::stray_statement(line.locate(0), ".endc");

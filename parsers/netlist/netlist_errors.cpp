@@ -117,4 +117,9 @@ InputError duplicate_device(const Location& where, std::string_view name) {
     return {"netlist.duplicate-device", where, fmt::format("device `{}` is defined twice", name)};
 }
 
+InputError file_too_large(const Location& where, std::string_view file, std::size_t bytes, std::size_t limit) {
+    return {"netlist.file-too-large", where,
+            fmt::format("`{}` holds {} bytes; a netlist file of at most {} bytes was expected", file, bytes, limit)};
+}
+
 }  // namespace mirrorcheck::errors

@@ -31,5 +31,6 @@ InputError stray_statement(const Location& where, std::string_view statement);
 InputError continuation_without_line(const Location& where);
 InputError unsupported_element(const Location& where, std::string_view name);
 InputError duplicate_device(const Location& where, std::string_view name);
+InputError file_too_large(const Location& where, std::string_view file, std::size_t bytes, std::size_t limit);
 
 }  // namespace mirrorcheck::errors

@@ -8,6 +8,9 @@
 #pragma once
 
 #include <cstddef>
+#include <cstdint>
+#include <deque>
+#include <memory>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -16,31 +19,56 @@
 
 namespace mirrorcheck::netlist::detail {
 
+struct SplitFile;
+
+// A logical line: a view of its text in the file's bytes (or, for a line with `+`
+// continuations, of its joined text), and where each physical line's part starts.
 struct LogicalLine {
-    std::string text;
-    const std::string* file = nullptr;  // owned by the reader, stable for its lifetime
-    // Where each physical line's text starts in `text`: {offset, line, column}; the first
-    // one apart, since most lines have no continuation.
-    struct Piece {
-        std::size_t offset = 0;
-        std::size_t line = 0;
-        std::size_t column = 0;
-    };
-    Piece first;
-    std::vector<Piece> continued;
+    std::string_view text;
+    const SplitFile* owner = nullptr;  // the split file that holds the text and the pieces
+    std::uint32_t line = 0;            // the first physical line, 1-based
+    std::uint32_t column = 0;          // of the text's first character, 1-based
+    // The `+` lines joined to it: owner->pieces[continued_first, + continued_count).
+    std::uint32_t continued_first = 0;
+    std::uint32_t continued_count = 0;
 
     Location locate(std::size_t offset) const;
-    std::size_t first_line() const { return first.line; }
+    std::size_t first_line() const { return line; }
+    std::size_t last_line() const;
+    const std::string& file() const;
 };
 
+// Where a continuation's text starts in its logical line's text, and where it was read.
+struct LinePiece {
+    std::uint32_t offset = 0;
+    std::uint32_t line = 0;
+    std::uint32_t column = 0;
+};
+
+// A file split into logical lines. The lines point into it: it is not copied or moved
+// once split (split_lines hands it out on the heap).
 struct SplitFile {
-    std::string title;  // the first physical line, when asked for
+    const std::string* file = nullptr;  // its name; owned by the reader, stable for its lifetime
+    std::string title;                  // the first physical line, when asked for
     std::vector<LogicalLine> lines;
+    std::vector<LinePiece> pieces;      // of the continued lines, each line's together
+    std::unique_ptr<char[]> bytes;      // the file's text
+    std::deque<std::string> joined;     // the text of each line that has continuations
+
+    SplitFile() = default;
+    SplitFile(const SplitFile&) = delete;
+    SplitFile& operator=(const SplitFile&) = delete;
 };
 
-// Splits a file's text into logical lines. With `first_is_title` the first physical line is
-// the title and not a statement.
-SplitFile split_lines(std::string_view text, const std::string* file, bool first_is_title);
+// The largest netlist file read (positions are kept in 32 bits); no real deck comes near.
+inline constexpr std::size_t max_netlist_file_bytes = std::size_t{0xffffffff};
+
+// Splits a file's text (`size` bytes, taken over) into logical lines. With `first_is_title`
+// the first physical line is the title and not a statement.
+std::unique_ptr<SplitFile> split_lines(std::unique_ptr<char[]> bytes, std::size_t size, const std::string* file,
+                                       bool first_is_title);
+// The same for text in memory (copied).
+std::unique_ptr<SplitFile> split_lines(std::string_view text, const std::string* file, bool first_is_title);
 
 enum class TokenKind {
     word,        // a name, number or node: anything up to a blank or one of = ( ) , [ ]

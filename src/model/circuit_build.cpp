@@ -45,18 +45,20 @@ std::shared_ptr<const Model> model_of(const netlist::FlatModel& flat) {
     return model;
 }
 
-Device device_of(const netlist::FlatDevice& flat, const std::vector<std::shared_ptr<const Model>>& models) {
+Device device_of(const netlist::FlatNetlist& netlist, const netlist::FlatDevice& flat,
+                 const std::vector<std::shared_ptr<const Model>>& models) {
     Device d;
     d.kind = kind_of(flat.kind);
     d.name = flat.name;
-    d.local_name = flat.local_name;
-    for (const auto& level : flat.hierarchy) d.hierarchy.push_back({level.instance, level.subckt, source_of(level.source)});
-    for (const auto& t : flat.terminals) d.terminals.push_back({t.role, t.net});
-    d.parameters = flat.parameters;
+    d.local_name = flat.local_name();
+    for (const netlist::FlatInstance* level : netlist.hierarchy(flat))
+        d.hierarchy.push_back({level->instance, level->subckt, source_of(level->source)});
+    for (const auto& t : netlist.terminals(flat)) d.terminals.push_back({netlist.role(t), netlist.net(t)});
+    for (const auto& p : netlist.parameters(flat)) d.parameters[netlist.name(p)] = p.value;
     d.value = flat.value;
-    d.text = flat.text;
-    if (flat.model) d.model = models.at(*flat.model);
-    d.source = source_of(flat.source);
+    for (const auto& t : netlist.texts(flat)) d.text[t.key] = t.text;
+    if (flat.model != netlist::no_index) d.model = models.at(flat.model);
+    d.source = source_of(netlist.source(flat));
     return d;
 }
 
@@ -70,7 +72,7 @@ Circuit build_circuit(const netlist::FlatNetlist& netlist) {
     circuit.title = netlist.title;
     circuit.control_blocks = netlist.control_blocks;
     circuit.reserve(netlist.devices.size());
-    for (const auto& d : netlist.devices) circuit.add_device(device_of(d, models));
+    for (const auto& d : netlist.devices) circuit.add_device(device_of(netlist, d, models));
     return circuit;
 }
 

@@ -1,0 +1,76 @@
+// Private to the netlist reader: a hash index of ids whose keys live elsewhere (a vector of
+// names, the devices), so that a million names cost a few bytes each rather than a node
+// and a copy each. Open addressing, linear probing, kept at most half full.
+#pragma once
+
+#include <cstdint>
+#include <functional>
+#include <string_view>
+#include <vector>
+
+namespace mirrorcheck::netlist::detail {
+
+class IdTable {
+public:
+    static constexpr std::uint32_t none = 0xffffffff;
+
+    // The id whose key equals `key`, or `none`; key_of(id) gives a stored id's key.
+    template <class KeyOf>
+    std::uint32_t find(std::string_view key, const KeyOf& key_of) const {
+        if (slots_.empty()) return none;
+        const std::uint32_t h = hash(key);
+        for (std::size_t i = h & mask_;; i = (i + 1) & mask_) {
+            const Slot& s = slots_[i];
+            if (s.id == none) return none;
+            if (s.hash == h && key_of(s.id) == key) return s.id;
+        }
+    }
+
+    // Stores `id` under `key` unless an equal key is there; returns the id stored for it.
+    template <class KeyOf>
+    std::uint32_t insert(std::string_view key, std::uint32_t id, const KeyOf& key_of) {
+        if (2 * (count_ + 1) > slots_.size()) grow();
+        const std::uint32_t h = hash(key);
+        for (std::size_t i = h & mask_;; i = (i + 1) & mask_) {
+            Slot& s = slots_[i];
+            if (s.id == none) {
+                s = {id, h};
+                ++count_;
+                return id;
+            }
+            if (s.hash == h && key_of(s.id) == key) return s.id;
+        }
+    }
+
+    void reserve(std::size_t keys) {
+        while (2 * keys > slots_.size()) grow();
+    }
+
+private:
+    struct Slot {
+        std::uint32_t id = none;
+        std::uint32_t hash = 0;
+    };
+    std::vector<Slot> slots_;
+    std::size_t mask_ = 0;
+    std::size_t count_ = 0;
+
+    static std::uint32_t hash(std::string_view key) {
+        const std::size_t h = std::hash<std::string_view>{}(key);
+        return static_cast<std::uint32_t>(h ^ (h >> 32));
+    }
+
+    void grow() {
+        std::vector<Slot> old = std::move(slots_);
+        slots_.assign(old.empty() ? 64 : 2 * old.size(), Slot{});
+        mask_ = slots_.size() - 1;
+        for (const Slot& s : old) {
+            if (s.id == none) continue;
+            std::size_t i = s.hash & mask_;
+            while (slots_[i].id != none) i = (i + 1) & mask_;
+            slots_[i] = s;
+        }
+    }
+};
+
+}  // namespace mirrorcheck::netlist::detail

@@ -32,25 +32,36 @@ struct Instance {
     std::optional<double> forced_m;
 };
 
-// An element line, tokenised and split into positional tokens and name=value pairs.
-struct Element {
-    const LogicalLine* line;
+// What an element line is read into: its tokens, split into positional tokens and
+// name=value pairs (pointing into the tokens), and its name in lower case.
+struct ElementBuffers {
     std::vector<Token> tokens;
     LineParts parts;
-    std::string name;  // lower case
+    std::string name;
+
+    void read(const LogicalLine& line) {
+        tokenize(line, tokens);
+        split_parts(line, tokens, 1, false, parts);
+        name = to_lower(tokens.at(0).text);
+    }
+};
+
+// An element line, read.
+struct Element {
+    const LogicalLine* line;
+    const std::vector<Token>& tokens;
+    const LineParts& parts;
+    const std::string& name;  // lower case
     char letter;
 
-    explicit Element(const LogicalLine* l) : line(l), tokens(tokenize(*l)) {
-        parts = split_parts(*l, tokens, 1);
-        name = to_lower(tokens.at(0).text);
-        letter = name[0];
-    }
+    Element(const LogicalLine* l, const ElementBuffers& b)
+        : line(l), tokens(b.tokens), parts(b.parts), name(b.name), letter(b.name[0]) {}
     Location at(const Token& t) const { return line->locate(t.offset); }
     Location end() const { return line->locate(line->text.size()); }
     std::size_t count() const { return parts.positional.size(); }
     const Token& positional(std::size_t i) const { return *parts.positional[i]; }
     bool is_word(std::size_t i, std::string_view lower) const {
-        return i < count() && positional(i).kind == TokenKind::word && to_lower(positional(i).text) == lower;
+        return i < count() && positional(i).kind == TokenKind::word && iequals(positional(i).text, lower);
     }
     const NamedValue* named(std::string_view key) const {
         for (const auto& nv : parts.named)
@@ -89,7 +100,13 @@ struct Draft {
     ElementKind kind = ElementKind::other;
     std::string name;
     std::size_t local_length = 0;
-    std::vector<std::pair<std::string, std::string>> terminals;  // role, net
+    struct Terminal {
+        std::string role;
+        std::string net;
+        std::uint32_t hash = 0;  // of the net, for the netlist's net index
+    };
+    std::vector<Terminal> terminals;
+    std::uint32_t name_hash = 0;  // for the device index
     SmallMap<double> parameters;
     SmallMap<std::string> text;
     std::optional<double> value;
@@ -100,7 +117,7 @@ struct Draft {
 
 ValueText token_value(const LogicalLine& line, const Token& t) {
     bool wrapped = t.kind == TokenKind::braced || t.kind == TokenKind::quoted;
-    return {t.text, &line, t.offset + (wrapped ? 1 : 0)};
+    return {std::string(t.text), &line, t.offset + (wrapped ? 1 : 0)};
 }
 
 InputError expression_error(const ExpressionError& e, const ValueText& v) {
@@ -282,8 +299,14 @@ public:
         if (deck_.temperature) top.scope.set("temper", *deck_.temperature);
         define_functions(deck_.top.functions, top.scope);
         collect_multiplied(deck_.top);
-        out_.devices.reserve(deck_.top.elements.size());
-        device_names_.reserve(deck_.top.elements.size());
+        // Room for every device at once: a vector that grows by doubling copies all it holds
+        // and touches twice the memory. Space reserved but never written costs no memory.
+        const std::size_t devices = std::min(estimate_devices(deck_.top), max_reserved_devices);
+        out_.devices.reserve(devices);
+        out_.terminal_table.reserve(4 * devices);
+        out_.parameter_table.reserve(2 * devices);
+        device_names_.reserve(devices);
+        nets_.reserve(devices);
         evaluate_params(deck_.top.params, top.scope);
         expand(top);
         out_.title = deck_.title;
@@ -302,21 +325,84 @@ private:
     IdTable words_;         // out_.words
     std::unordered_map<const std::string*, std::uint32_t> source_files_;  // into out_.source_files
     Draft draft_;           // the device being built
+    ElementBuffers line_;  // the top-level line being read
+    std::unordered_map<const SubcktDef*, std::vector<ElementBuffers>> definitions_;  // each one's lines, read
+    std::unordered_map<const SubcktDef*, std::size_t> estimates_;  // devices per definition
     std::unordered_map<std::string, std::size_t> models_;  // index into out_.models, by ngspice name
+    struct LastModel {
+        std::uint32_t instance;
+        std::string name;
+        std::size_t index;
+    };
+    std::optional<LastModel> last_model_;  // the model the last device line named
     std::unordered_set<std::string> multiplied_;  // subcircuits that some X line gives an m
+
+    // A reservation for a deck that would flatten to more devices is not made up front.
+    static constexpr std::size_t max_reserved_devices = std::size_t{1} << 24;
+
+    // The devices a definition flattens to, as far as its X lines name subcircuits visible
+    // from it (a guess for reserving room; the flattening itself decides).
+    std::size_t estimate_devices(const SubcktDef& def) {
+        if (auto it = estimates_.find(&def); it != estimates_.end()) return it->second;
+        estimates_[&def] = 0;  // a recursive definition counts nothing for itself
+        std::size_t count = 0;
+        std::vector<Token> tokens;
+        LineParts parts;
+        for (const LogicalLine* line : def.elements) {
+            if (line->text.empty() || (line->text[0] != 'x' && line->text[0] != 'X')) {
+                ++count;
+                continue;
+            }
+            tokenize(*line, tokens);
+            split_parts(*line, tokens, 1, false, parts);
+            if (parts.positional.empty()) continue;
+            const std::string name = to_lower(parts.positional.back()->text);
+            for (const SubcktDef* d = &def; d; d = d->parent)
+                if (auto it = d->subckts.find(name); it != d->subckts.end()) {
+                    count += estimate_devices(*it->second);
+                    break;
+                }
+            count = std::min(count, max_reserved_devices);
+        }
+        estimates_[&def] = count;
+        return count;
+    }
 
     void collect_multiplied(const SubcktDef& def) {
         for (const LogicalLine* line : def.elements) {
             if (line->text.empty() || (line->text[0] != 'x' && line->text[0] != 'X')) continue;
-            Element el(line);
+            line_.read(*line);
+            Element el(line, line_);
             if (el.named("m") && el.count() > 0) multiplied_.insert(to_lower(el.positional(el.count() - 1).text));
         }
         for (const auto& [name, child] : def.subckts) collect_multiplied(*child);
     }
 
+    // A subcircuit's lines are read once, for its first instance; the top level's are read
+    // one at a time into buffers that keep their storage, as each is visited once.
+    const std::vector<ElementBuffers>& read_definition(const SubcktDef& def) {
+        auto [it, inserted] = definitions_.try_emplace(&def);
+        if (inserted) {
+            std::vector<ElementBuffers> lines(def.elements.size());
+            for (std::size_t i = 0; i < lines.size(); ++i) lines[i].read(*def.elements[i]);
+            it->second = std::move(lines);
+        }
+        return it->second;
+    }
+
     void expand(const Instance& inst) {
+        if (inst.def != &deck_.top) {
+            const std::vector<ElementBuffers>& lines = read_definition(*inst.def);
+            for (std::size_t i = 0; i < lines.size(); ++i) {
+                Element el(inst.def->elements[i], lines[i]);
+                if (el.letter == 'x') instantiate(inst, el);
+                else add(inst, el);
+            }
+            return;
+        }
         for (const LogicalLine* line : inst.def->elements) {
-            Element el(line);
+            line_.read(*line);
+            Element el(line, line_);
             if (el.letter == 'x') instantiate(inst, el);
             else add(inst, el);
         }
@@ -444,6 +530,8 @@ private:
 
     std::size_t resolve_model(const Instance& inst, const Element& el, const Token& t, const Draft& device) {
         std::string name = to_lower(t.text);
+        // Neighbouring lines mostly name the same model in the same instance.
+        if (last_model_ && last_model_->instance == inst.id && last_model_->name == name) return last_model_->index;
         ModelHome home = find_model(inst, name);
         if (!home.owner) throw errors::unknown_model(el.at(t), name);
         if (home.bins) home.card = choose_bin(*home.owner, el, t, name, *home.bins, device);
@@ -452,6 +540,8 @@ private:
         ngspice_name += home.card->name;
         auto [it, inserted] = models_.try_emplace(ngspice_name, out_.models.size());
         if (inserted) out_.models.push_back(evaluate_model(*home.card, home.owner->scope, name, ngspice_name));
+        if (home.bins) last_model_.reset();  // a binned model depends on the device's size
+        else last_model_ = LastModel{inst.id, name, it->second};
         return it->second;
     }
 
@@ -514,6 +604,7 @@ private:
         Draft& d = draft_;
         d.kind = kind;
         d.name = device_name(inst, el.name);
+        d.name_hash = device_names_.prefetch(d.name);
         d.local_length = el.name.size();
         d.terminals.clear();
         d.parameters.items.clear();
@@ -523,16 +614,21 @@ private:
         return d;
     }
 
+    void add_terminal(Draft& d, std::string role, std::string net) const {
+        const std::uint32_t hash = nets_.prefetch(net);
+        d.terminals.push_back({std::move(role), std::move(net), hash});
+    }
+
     void connect(const Instance& inst, const Element& el, Draft& d, std::size_t first,
                  std::initializer_list<const char*> roles, std::string_view expected) const {
         std::size_t i = first;
-        for (const char* role : roles) d.terminals.push_back({role, net_name(inst, node_token(el, i++, expected))});
+        for (const char* role : roles) add_terminal(d, role, net_name(inst, node_token(el, i++, expected)));
     }
 
     void connect_n(const Instance& inst, const Element& el, Draft& d, std::size_t count,
                    const std::array<const char*, 6>& roles) const {
         for (std::size_t i = 0; i < count; ++i)
-            d.terminals.push_back({roles[i], net_name(inst, node_token(el, i, ""))});
+            add_terminal(d, roles[i], net_name(inst, node_token(el, i, "")));
     }
 
     double value_at(const Instance& inst, const Element& el, std::size_t i) const {
@@ -563,6 +659,14 @@ private:
         return id;
     }
 
+    std::uint32_t intern_net(std::string_view net, std::uint32_t hash) {
+        const auto next = static_cast<std::uint32_t>(out_.nets.size());
+        const std::uint32_t id =
+            nets_.insert_hashed(net, hash, next, [&](std::uint32_t i) -> std::string_view { return out_.nets[i]; });
+        if (id == next) out_.nets.emplace_back(net);
+        return id;
+    }
+
     std::uint32_t source_file(const std::string& file) {
         auto [it, inserted] = source_files_.try_emplace(&file, static_cast<std::uint32_t>(out_.source_files.size()));
         if (inserted) out_.source_files.push_back(file);
@@ -572,7 +676,8 @@ private:
     // Moves the draft into the netlist's tables.
     void commit(const Instance& inst, const Element& el, Draft& d) {
         const auto index = static_cast<std::uint32_t>(out_.devices.size());
-        if (device_names_.insert(d.name, index, [&](std::uint32_t i) -> std::string_view { return out_.devices[i].name; }) != index)
+        if (device_names_.insert_hashed(d.name, d.name_hash, index,
+                                        [&](std::uint32_t i) -> std::string_view { return out_.devices[i].name; }) != index)
             throw errors::duplicate_device(el.line->locate(0), d.name);
         FlatDevice& f = out_.devices.emplace_back();
         f.kind = d.kind;
@@ -584,8 +689,8 @@ private:
         f.line = static_cast<std::uint32_t>(el.line->first_line());
         f.value = d.value;
         f.terminals = {static_cast<std::uint32_t>(out_.terminal_table.size()), static_cast<std::uint32_t>(d.terminals.size())};
-        for (const auto& [role, net] : d.terminals)
-            out_.terminal_table.push_back({intern(words_, out_.words, role), intern(nets_, out_.nets, net)});
+        for (const Draft::Terminal& t : d.terminals)
+            out_.terminal_table.push_back({intern(words_, out_.words, t.role), intern_net(t.net, t.hash)});
         f.parameters = {static_cast<std::uint32_t>(out_.parameter_table.size()),
                         static_cast<std::uint32_t>(d.parameters.items.size())};
         for (const auto& [name, value] : d.parameters.items)
@@ -656,10 +761,10 @@ private:
         }
     }
 
-    static bool is_transient_function(const std::string& word) {
-        static const std::unordered_set<std::string> names{"pulse", "sin", "exp", "pwl", "sffm", "am", "trnoise",
-                                                           "trrandom", "distof1", "distof2"};
-        return names.count(word) != 0;
+    static bool is_transient_function(std::string_view word) {
+        static constexpr std::array<std::string_view, 10> names{"pulse", "sin", "exp", "pwl", "sffm", "am", "trnoise",
+                                                                "trrandom", "distof1", "distof2"};
+        return std::find(names.begin(), names.end(), word) != names.end();
     }
 
     void source(const Instance& inst, const Element& el, ElementKind kind) {
@@ -735,8 +840,8 @@ private:
         if (el.is_word(i, "poly")) {
             std::size_t n = poly_dimension(inst, el, i);
             for (std::size_t k = 0; k < n; ++k) {
-                d.terminals.push_back({"cpos" + std::to_string(k + 1), net_name(inst, node_token(el, i++, "control nodes"))});
-                d.terminals.push_back({"cneg" + std::to_string(k + 1), net_name(inst, node_token(el, i++, "control nodes"))});
+                add_terminal(d, "cpos" + std::to_string(k + 1), net_name(inst, node_token(el, i++, "control nodes")));
+                add_terminal(d, "cneg" + std::to_string(k + 1), net_name(inst, node_token(el, i++, "control nodes")));
             }
             d.text["polynomial"] = el.text_after(i - 1);
         } else if (behavioural) {
@@ -855,7 +960,7 @@ private:
             if (t.kind != TokenKind::word || t.text[0] == '%' || t.text[0] == '~') continue;
             std::string node = to_lower(t.text);
             if (node == "null") continue;
-            d.terminals.push_back({"n" + std::to_string(++port), net_name(inst, t)});
+            add_terminal(d, "n" + std::to_string(++port), net_name(inst, t));
         }
         const Token& model = el.positional(el.count() - 1);
         if (names_model(inst, model)) d.model = resolve_model(inst, el, model, d);

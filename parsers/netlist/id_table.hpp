@@ -1,8 +1,10 @@
 // Private to the netlist reader: a hash index of ids whose keys live elsewhere (a vector of
 // names, the devices), so that a million names cost a few bytes each rather than a node
-// and a copy each. Open addressing, linear probing, kept at most half full.
+// and a copy each. Open addressing, linear probing, kept at most half full; the last few
+// ids found are remembered, as netlists name a net on neighbouring lines.
 #pragma once
 
+#include <array>
 #include <cstdint>
 #include <functional>
 #include <string_view>
@@ -19,6 +21,7 @@ public:
     std::uint32_t find(std::string_view key, const KeyOf& key_of) const {
         if (slots_.empty()) return none;
         const std::uint32_t h = hash(key);
+        if (const Slot& r = recent_[h % recent_size]; r.id != none && r.hash == h && key_of(r.id) == key) return r.id;
         for (std::size_t i = h & mask_;; i = (i + 1) & mask_) {
             const Slot& s = slots_[i];
             if (s.id == none) return none;
@@ -29,16 +32,35 @@ public:
     // Stores `id` under `key` unless an equal key is there; returns the id stored for it.
     template <class KeyOf>
     std::uint32_t insert(std::string_view key, std::uint32_t id, const KeyOf& key_of) {
-        if (2 * (count_ + 1) > slots_.size()) grow();
+        return insert_hashed(key, hash(key), id, key_of);
+    }
+
+    // The key's hash, having asked the processor to fetch the slot where its search will
+    // start: a caller with other work to do before inserting hides the cache miss behind it.
+    std::uint32_t prefetch(std::string_view key) const {
         const std::uint32_t h = hash(key);
+        if (!slots_.empty()) __builtin_prefetch(&slots_[h & mask_]);
+        return h;
+    }
+
+    // insert() with the hash prefetch() returned.
+    template <class KeyOf>
+    std::uint32_t insert_hashed(std::string_view key, std::uint32_t h, std::uint32_t id, const KeyOf& key_of) {
+        Slot& r = recent_[h % recent_size];
+        if (r.id != none && r.hash == h && key_of(r.id) == key) return r.id;
+        if (2 * (count_ + 1) > slots_.size()) grow();
         for (std::size_t i = h & mask_;; i = (i + 1) & mask_) {
             Slot& s = slots_[i];
             if (s.id == none) {
                 s = {id, h};
                 ++count_;
+                r = s;
                 return id;
             }
-            if (s.hash == h && key_of(s.id) == key) return s.id;
+            if (s.hash == h && key_of(s.id) == key) {
+                r = s;
+                return s.id;
+            }
         }
     }
 
@@ -51,7 +73,9 @@ private:
         std::uint32_t id = none;
         std::uint32_t hash = 0;
     };
+    static constexpr std::size_t recent_size = 251;
     std::vector<Slot> slots_;
+    std::array<Slot, recent_size> recent_{};
     std::size_t mask_ = 0;
     std::size_t count_ = 0;
 

@@ -24,11 +24,11 @@ bool starts_named_value(const std::vector<Token>& tokens, std::size_t i) {
     return i + 1 < tokens.size() && tokens[i].kind == TokenKind::word && tokens[i + 1].is('=');
 }
 
-bool is_params_keyword(const Token& t) { return t.kind == TokenKind::word && to_lower(t.text) == "params:"; }
+bool is_params_keyword(const Token& t) { return t.kind == TokenKind::word && iequals(t.text, "params:"); }
 
 ValueText value_of(const LogicalLine& line, const std::vector<Token>& tokens, std::size_t first, std::size_t last) {
     if (last == first + 1 && tokens[first].kind != TokenKind::word && tokens[first].kind != TokenKind::punct)
-        return {tokens[first].text, &line, tokens[first].offset + 1, tokens[first].kind == TokenKind::string};
+        return {std::string(tokens[first].text), &line, tokens[first].offset + 1, tokens[first].kind == TokenKind::string};
     while (last > first + 1 && tokens[last - 1].is(',')) --last;
     std::size_t begin = tokens[first].offset;
     std::size_t end = tokens[last - 1].end;
@@ -159,7 +159,7 @@ private:
                 control_line(line);
                 continue;
             }
-            std::string head = first_word(line);
+            const std::string head = first_word(line);
             if (head == ".lib" || head == ".endl") {
                 std::vector<Token> tokens = tokenize(line);
                 if (head == ".lib" && tokens.size() == 2) {
@@ -178,16 +178,18 @@ private:
                 }
             }
             if (!in_section || !skipping.empty()) continue;
-            if (conditional(line)) continue;
-            statement(line, path, context);
+            if (conditional(line, head)) continue;
+            statement(line, head, path, context);
         }
         return found;
     }
 
     static std::string first_word(const LogicalLine& line) {
         std::size_t end = 0;
-        while (end < line.text.size() && !std::isspace(static_cast<unsigned char>(line.text[end]))) ++end;
-        return to_lower(std::string_view(line.text).substr(0, end));
+        const std::string_view text = line.text;
+        auto space = [](char c) { return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' || c == '\v'; };
+        while (end < text.size() && !space(text[end])) ++end;
+        return to_lower(text.substr(0, end));
     }
 
     void control_line(const LogicalLine& line) {
@@ -210,8 +212,7 @@ private:
     // `.if (cond)` / `.elseif (cond)` / `.else` / `.endif`, conditions on the global
     // parameters read so far (ngspice also accepts `=` for `==`). Returns whether the line
     // was consumed: a conditional, or a line inside a branch that is not taken.
-    bool conditional(const LogicalLine& line) {
-        std::string head = first_word(line);
+    bool conditional(const LogicalLine& line, const std::string& head) {
         bool outer = conditionals_.size() < 2 || conditionals_[conditionals_.size() - 2].reading;
         if (head == ".if") {
             bool enclosing = reading();
@@ -259,8 +260,8 @@ private:
         }
     }
 
-    void statement(const LogicalLine& line, const std::filesystem::path& path, const Context& context) {
-        std::string head = first_word(line);
+    void statement(const LogicalLine& line, const std::string& head, const std::filesystem::path& path,
+                   const Context& context) {
         if (head.empty()) return;
         if (head[0] != '.') {
             if (!std::isalpha(static_cast<unsigned char>(head[0])))
@@ -374,7 +375,7 @@ private:
                                      std::string_view what) {
         if (i >= tokens.size()) throw errors::netlist_syntax(line.locate(line.text.size()), what, "");
         if (tokens[i].kind == TokenKind::punct) throw errors::netlist_syntax(line.locate(tokens[i].offset), what, tokens[i].text);
-        return tokens[i].text;
+        return std::string(tokens[i].text);
     }
 
     // ngspice's search for a relative name: the working folder first, then `own_folder`.
@@ -385,7 +386,7 @@ private:
         Location at = line.locate(name_token.offset);
         ref.column = at.column;
         ref.length = name_token.end - name_token.offset;
-        ref.written = name_token.text;
+        ref.written = std::string(name_token.text);
         ref.library = library;
         const std::filesystem::path name(name_token.text);
         if (name.is_absolute()) {
@@ -465,6 +466,14 @@ private:
 
 LineParts split_parts(const LogicalLine& line, const std::vector<Token>& tokens, std::size_t first, bool greedy) {
     LineParts parts;
+    split_parts(line, tokens, first, greedy, parts);
+    return parts;
+}
+
+void split_parts(const LogicalLine& line, const std::vector<Token>& tokens, std::size_t first, bool greedy,
+                 LineParts& parts) {
+    parts.positional.clear();
+    parts.named.clear();
     std::size_t i = first;
     auto value_continues = [&](std::size_t k, int depth) {
         if (starts_named_value(tokens, k) || is_params_keyword(tokens[k])) return false;
@@ -482,7 +491,7 @@ LineParts split_parts(const LogicalLine& line, const std::vector<Token>& tokens,
         }
         std::size_t value_begin = i + 2;
         if (value_begin >= tokens.size() || starts_named_value(tokens, value_begin) || tokens[value_begin].is(')'))
-            throw errors::netlist_syntax(line.locate(tokens[i + 1].end), "a value after `" + tokens[i].text + "=`",
+            throw errors::netlist_syntax(line.locate(tokens[i + 1].end), "a value after `" + std::string(tokens[i].text) + "=`",
                                          value_begin < tokens.size() ? tokens[value_begin].text : "");
         std::size_t value_end = value_begin + 1;
         int depth = tokens[value_begin].is('(') ? 1 : 0;
@@ -493,7 +502,6 @@ LineParts split_parts(const LogicalLine& line, const std::vector<Token>& tokens,
         parts.named.push_back({to_lower(tokens[i].text), value_of(line, tokens, value_begin, value_end)});
         i = value_end;
     }
-    return parts;
 }
 
 std::unique_ptr<Deck> read_deck(const std::filesystem::path& path) {

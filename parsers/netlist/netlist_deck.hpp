@@ -96,5 +96,8 @@ struct LineParts {
 };
 LineParts split_parts(const LogicalLine& line, const std::vector<Token>& tokens, std::size_t first,
                       bool greedy = false);
+// The same into `out` (cleared first), which keeps its storage from line to line.
+void split_parts(const LogicalLine& line, const std::vector<Token>& tokens, std::size_t first, bool greedy,
+                 LineParts& out);
 
 }  // namespace mirrorcheck::netlist::detail

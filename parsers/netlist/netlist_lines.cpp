@@ -2,6 +2,7 @@
 #include "parsers/netlist/netlist_lines.hpp"
 
 #include <algorithm>
+#include <array>
 #include <cstring>
 
 #include "parsers/netlist/netlist_errors.hpp"
@@ -15,10 +16,17 @@ bool is_blank(char c) { return c == ' ' || c == '\t' || c == '\f' || c == '\v'; 
 // The length of the line's text once an inline comment is cut off. Quotes and braces
 // protect their contents: `'a;b'` is not a comment.
 std::size_t content_length(std::string_view line) {
+    // The characters that can start or end a comment or protect one: most lines hold none.
+    static constexpr auto special = [] {
+        std::array<bool, 256> table{};
+        for (unsigned char c : std::string_view("';\"{}$")) table[c] = true;
+        return table;
+    }();
     char quote = 0;
     int braces = 0;
     for (std::size_t i = 0; i < line.size(); ++i) {
         char c = line[i];
+        if (!special[static_cast<unsigned char>(c)]) continue;
         if (quote) {
             if (c == quote) quote = 0;
             continue;
@@ -128,8 +136,20 @@ std::unique_ptr<SplitFile> split_lines(std::string_view text, const std::string*
 }
 
 std::vector<Token> tokenize(const LogicalLine& line) {
-    const std::string_view s = line.text;
     std::vector<Token> tokens;
+    tokenize(line, tokens);
+    return tokens;
+}
+
+void tokenize(const LogicalLine& line, std::vector<Token>& tokens) {
+    // Characters that end a word: blanks and = { } ' " ( ) , [ ]
+    static constexpr auto ends_word = [] {
+        std::array<bool, 256> table{};
+        for (unsigned char c : std::string_view(" \t\f\v={}'\"(),[]")) table[c] = true;
+        return table;
+    }();
+    const std::string_view s = line.text;
+    tokens.clear();
     std::size_t i = 0;
     while (i < s.size()) {
         char c = s[i];
@@ -158,22 +178,20 @@ std::vector<Token> tokenize(const LogicalLine& line) {
             i = j + 1;
         } else if (c == '=' || c == '(' || c == ')' || c == ',' || c == '[' || c == ']') {
             t.kind = TokenKind::punct;
-            t.text = std::string(1, c);
+            t.text = s.substr(i, 1);
             ++i;
         } else if (c == '}') {
             throw errors::netlist_syntax(line.locate(i), "a name or a value (a `}` without its `{`)", "}");
         } else {
             std::size_t j = i;
-            while (j < s.size() && !is_blank(s[j]) && std::string_view("={}'\"(),[]").find(s[j]) == std::string_view::npos)
-                ++j;
+            while (j < s.size() && !ends_word[static_cast<unsigned char>(s[j])]) ++j;
             t.kind = TokenKind::word;
             t.text = s.substr(i, j - i);
             i = j;
         }
         t.end = i;
-        tokens.push_back(std::move(t));
+        tokens.push_back(t);
     }
-    return tokens;
 }
 
 }  // namespace mirrorcheck::netlist::detail

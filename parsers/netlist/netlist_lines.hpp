@@ -80,7 +80,7 @@ enum class TokenKind {
 
 struct Token {
     TokenKind kind = TokenKind::word;
-    std::string text;      // as written (case kept)
+    std::string_view text;   // as written (case kept), in the line's text
     std::size_t offset = 0;  // in the logical line, of the first character (the brace or quote)
     std::size_t end = 0;     // one past the last character
 
@@ -90,5 +90,7 @@ struct Token {
 
 // Splits a logical line into tokens; throws InputError for an unclosed brace or quote.
 std::vector<Token> tokenize(const LogicalLine& line);
+// The same into `out` (cleared first), which keeps its storage from line to line.
+void tokenize(const LogicalLine& line, std::vector<Token>& out);
 
 }  // namespace mirrorcheck::netlist::detail

@@ -412,8 +412,14 @@ private:
 
     static std::string device_name(const Instance& inst, const std::string& local) {
         std::string name;
-        for (const std::string& segment : inst.segments) name += std::string(1, local[0]) + "." + segment + ".";
-        return name + local;
+        for (const std::string& segment : inst.segments) {
+            name += local[0];
+            name += '.';
+            name += segment;
+            name += '.';
+        }
+        name += local;
+        return name;
     }
 
     std::string net_name(const Instance& inst, const Token& t) const {
@@ -421,7 +427,13 @@ private:
         if (node == "0" || node == "gnd") return "0";
         if (deck_.globals.count(node)) return node;
         if (auto it = inst.ports.find(node); it != inst.ports.end()) return it->second;
-        return inst.path.empty() ? node : inst.path + "." + node;
+        if (inst.path.empty()) return node;
+        std::string net;
+        net.reserve(inst.path.size() + 1 + node.size());
+        net += inst.path;
+        net += '.';
+        net += node;
+        return net;
     }
 
     const Token& node_token(const Element& el, std::size_t i, std::string_view expected) const {

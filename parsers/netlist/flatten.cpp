@@ -305,8 +305,10 @@ public:
         out_.devices.reserve(devices);
         out_.terminal_table.reserve(4 * devices);
         out_.parameter_table.reserve(2 * devices);
-        device_names_.reserve(devices);
-        nets_.reserve(devices);
+        // The indexes' slots are written when made: a small deck that claims many devices
+        // (a subcircuit bomb) does not get them all up front.
+        device_names_.reserve(std::min(devices, max_reserved_names));
+        nets_.reserve(std::min(devices, max_reserved_names));
         evaluate_params(deck_.top.params, top.scope);
         expand(top);
         out_.title = deck_.title;
@@ -339,6 +341,7 @@ private:
 
     // A reservation for a deck that would flatten to more devices is not made up front.
     static constexpr std::size_t max_reserved_devices = std::size_t{1} << 24;
+    static constexpr std::size_t max_reserved_names = std::size_t{1} << 21;
 
     // The devices a definition flattens to, as far as its X lines name subcircuits visible
     // from it (a guess for reserving room; the flattening itself decides).

@@ -92,7 +92,6 @@ struct SmallMap {
         return nullptr;
     }
     const V* find(std::string_view key) const { return const_cast<SmallMap*>(this)->find(key); }
-    bool empty() const { return items.empty(); }
 };
 
 // The device being built from its element line, before it goes into the netlist's tables.

@@ -16,19 +16,6 @@ class IdTable {
 public:
     static constexpr std::uint32_t none = 0xffffffff;
 
-    // The id whose key equals `key`, or `none`; key_of(id) gives a stored id's key.
-    template <class KeyOf>
-    std::uint32_t find(std::string_view key, const KeyOf& key_of) const {
-        if (slots_.empty()) return none;
-        const std::uint32_t h = hash(key);
-        if (const Slot& r = recent_[h % recent_size]; r.id != none && r.hash == h && key_of(r.id) == key) return r.id;
-        for (std::size_t i = h & mask_;; i = (i + 1) & mask_) {
-            const Slot& s = slots_[i];
-            if (s.id == none) return none;
-            if (s.hash == h && key_of(s.id) == key) return s.id;
-        }
-    }
-
     // Stores `id` under `key` unless an equal key is there; returns the id stored for it.
     template <class KeyOf>
     std::uint32_t insert(std::string_view key, std::uint32_t id, const KeyOf& key_of) {

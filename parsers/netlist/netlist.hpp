@@ -163,9 +163,6 @@ struct FlatNetlist {
     FileLine source(const FlatDevice& d) const { return {source_files[d.file], d.line}; }
     // The X lines above a device, outermost first.
     std::vector<const FlatInstance*> hierarchy(const FlatDevice& d) const;
-    // An instance parameter or text by name.
-    std::optional<double> parameter(const FlatDevice& d, std::string_view name) const;
-    const std::string* text(const FlatDevice& d, std::string_view key) const;
 };
 
 // Reads, expands and flattens the netlist at `path`. Throws InputError (codes "netlist.*",

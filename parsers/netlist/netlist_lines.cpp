@@ -129,12 +129,6 @@ std::unique_ptr<SplitFile> split_lines(std::unique_ptr<char[]> bytes, std::size_
     return out;
 }
 
-std::unique_ptr<SplitFile> split_lines(std::string_view text, const std::string* file, bool first_is_title) {
-    auto bytes = std::make_unique_for_overwrite<char[]>(text.size());
-    std::memcpy(bytes.get(), text.data(), text.size());
-    return split_lines(std::move(bytes), text.size(), file, first_is_title);
-}
-
 std::vector<Token> tokenize(const LogicalLine& line) {
     std::vector<Token> tokens;
     tokenize(line, tokens);

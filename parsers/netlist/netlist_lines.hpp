@@ -67,8 +67,6 @@ inline constexpr std::size_t max_netlist_file_bytes = std::size_t{0xffffffff};
 // the first physical line is the title and not a statement.
 std::unique_ptr<SplitFile> split_lines(std::unique_ptr<char[]> bytes, std::size_t size, const std::string* file,
                                        bool first_is_title);
-// The same for text in memory (copied).
-std::unique_ptr<SplitFile> split_lines(std::string_view text, const std::string* file, bool first_is_title);
 
 enum class TokenKind {
     word,        // a name, number or node: anything up to a blank or one of = ( ) , [ ]

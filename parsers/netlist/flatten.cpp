@@ -9,7 +9,7 @@
 
 #include "parsers/common/text.hpp"
 #include "parsers/netlist/expression.hpp"
-#include "parsers/netlist/id_table.hpp"
+#include "parsers/common/id_table.hpp"
 #include "parsers/netlist/netlist_errors.hpp"
 
 namespace mirrorcheck::netlist::detail {

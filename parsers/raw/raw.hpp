@@ -7,10 +7,10 @@
 #include <optional>
 #include <string>
 #include <string_view>
-#include <unordered_map>
 #include <vector>
 
 #include "parsers/common/column_allocator.hpp"
+#include "parsers/common/id_table.hpp"
 
 namespace mirrorcheck::raw {
 
@@ -54,7 +54,8 @@ struct Plot {
     // The short kind of analysis: "op", "ac", "tf", "dc", "tran", "noise", "sens", "pz" or "".
     std::string kind() const;
 
-    std::unordered_map<std::string, std::size_t> index_;  // canonical name -> variable
+    // Variables by canonical name (the keys are computed from `variables`, not stored).
+    IdTable index_;
 };
 
 // Which plots to decode. A plot is selected when `plots` is empty or when one entry

@@ -90,10 +90,12 @@ void read_header_fields(Cursor& c, Plot& plot) {
                 if (!seen.variables) throw errors::raw_missing_header_field(c.here(), "No. Variables:");
                 if (!seen.points) throw errors::raw_missing_header_field(c.here(), "No. Points:");
                 if (*seen.variables == 0) throw errors::raw_no_variables(c.here());
-                // A table line takes at least 6 bytes (`0 a b` and a newline).
-                if (*seen.variables > c.remaining() / 6)
-                    throw errors::raw_too_many_variables(c.here(), *seen.variables, c.remaining() / 6);
+                // A table line takes at least 6 bytes (`0 a b` and a newline); the index
+                // holds 32-bit ids.
+                const std::size_t most = std::min<std::size_t>(c.remaining() / 6, IdTable::none - 1);
+                if (*seen.variables > most) throw errors::raw_too_many_variables(c.here(), *seen.variables, most);
                 plot.variables.reserve(*seen.variables);
+                plot.index_.reserve(*seen.variables);
                 plot.variables.resize(*seen.variables);
                 return;
         }
@@ -101,8 +103,11 @@ void read_header_fields(Cursor& c, Plot& plot) {
 }
 
 void add_to_index(const Cursor& c, Plot& plot, std::size_t i) {
-    auto [it, fresh] = plot.index_.emplace(canonical_vector_name(plot.variables[i].name), i);
-    if (!fresh) throw errors::raw_duplicate_variable(c.here(), plot.variables[i].name, plot.variables[it->second].name);
+    const auto id = static_cast<std::uint32_t>(i);
+    const std::uint32_t stored = plot.index_.insert(canonical_vector_name(plot.variables[i].name), id, [&](std::uint32_t k) {
+        return canonical_vector_name(plot.variables[k].name);
+    });
+    if (stored != id) throw errors::raw_duplicate_variable(c.here(), plot.variables[i].name, plot.variables[stored].name);
 }
 
 void read_variable_table(Cursor& c, Plot& plot) {

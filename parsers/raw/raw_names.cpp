@@ -29,9 +29,11 @@ std::string canonical_vector_name(std::string_view name) {
 }
 
 std::optional<std::size_t> Plot::find(std::string_view name) const {
-    auto it = index_.find(canonical_vector_name(name));
-    if (it == index_.end()) return std::nullopt;
-    return it->second;
+    const std::uint32_t i = index_.find(canonical_vector_name(name), [&](std::uint32_t k) {
+        return canonical_vector_name(variables[k].name);
+    });
+    if (i == IdTable::none) return std::nullopt;
+    return i;
 }
 
 std::string Plot::kind() const {

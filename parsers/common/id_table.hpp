@@ -1,7 +1,8 @@
-// Private to the netlist reader: a hash index of ids whose keys live elsewhere (a vector of
-// names, the devices), so that a million names cost a few bytes each rather than a node
-// and a copy each. Open addressing, linear probing, kept at most half full; the last few
-// ids found are remembered, as netlists name a net on neighbouring lines.
+// For the readers: a hash index of ids whose keys live elsewhere (a vector of names, the
+// devices, a raw file's variables), so that a million names cost a few bytes each rather
+// than a node and a copy each. Open addressing, linear probing, kept at most half full; the
+// last few ids inserted or found by insert() are remembered, as netlists name a net on
+// neighbouring lines.
 #pragma once
 
 #include <array>
@@ -10,7 +11,7 @@
 #include <string_view>
 #include <vector>
 
-namespace mirrorcheck::netlist::detail {
+namespace mirrorcheck {
 
 class IdTable {
 public:
@@ -51,6 +52,18 @@ public:
         }
     }
 
+    // The id stored under `key`, or `none`.
+    template <class KeyOf>
+    std::uint32_t find(std::string_view key, const KeyOf& key_of) const {
+        if (slots_.empty()) return none;
+        const std::uint32_t h = hash(key);
+        for (std::size_t i = h & mask_;; i = (i + 1) & mask_) {
+            const Slot& s = slots_[i];
+            if (s.id == none) return none;
+            if (s.hash == h && key_of(s.id) == key) return s.id;
+        }
+    }
+
     void reserve(std::size_t keys) {
         while (2 * keys > slots_.size()) grow();
     }
@@ -84,4 +97,4 @@ private:
     }
 };
 
-}  // namespace mirrorcheck::netlist::detail
+}  // namespace mirrorcheck

@@ -29,6 +29,8 @@
 #include <string_view>
 #include <vector>
 
+#include "src/model/quantity_values.hpp"
+
 namespace mirrorcheck {
 
 struct Model;  // circuit.hpp
@@ -41,7 +43,7 @@ struct DeviceOp {
     bool is_mos = true;
     // Quantities by name: those of mos_quantities() or bjt_quantities(), in the
     // convention above. A quantity the run did not provide is absent.
-    std::map<std::string, double, std::less<>> values;
+    QuantityValues values;
     std::string origin;  // where the values came from, e.g. "run.raw: Operating Point"
 
     std::optional<double> get(std::string_view quantity) const;

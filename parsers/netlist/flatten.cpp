@@ -26,6 +26,8 @@ struct Instance {
     // first): {"x1001_t", "x1"} names a resistor `r.x1001_t.r.x1.r1`.
     std::vector<std::string> segments;
     std::unordered_map<std::string, std::string> ports;   // port name -> the caller's net
+    // The net id of each of its definition's local nodes (see Definition), once resolved.
+    mutable std::vector<std::uint32_t> nets;
     std::uint32_t id = no_index;  // its FlatInstance; no_index at the top
     std::size_t depth = 0;        // X lines above it
     // The `m` ngspice 39 writes onto every device line of this instance (see flatten.hpp).
@@ -38,11 +40,33 @@ struct ElementBuffers {
     std::vector<Token> tokens;
     LineParts parts;
     std::string name;
+    // A subcircuit's line only: the definition's local node each positional token names,
+    // once it has been used as a node.
+    std::vector<std::uint32_t> local_nodes;
+    // A subcircuit's line only: each name=value pair's value when written as a plain
+    // number (filled at the line's first instance).
+    std::vector<std::optional<double>> named_numbers;
 
     void read(const LogicalLine& line) {
         tokenize(line, tokens);
         split_parts(line, tokens, 1, false, parts);
         name = to_lower(tokens.at(0).text);
+    }
+};
+
+// A subcircuit's lines, read once for all its instances, and its local nodes numbered in
+// the order first used, so that an instance resolves each of its nets once rather than
+// once per terminal.
+struct Definition {
+    std::vector<ElementBuffers> lines;
+    std::unordered_map<std::string, std::uint32_t> local_nodes;  // lower-case node name -> number
+
+    std::uint32_t local_node(ElementBuffers& line, std::size_t i, std::string_view text) {
+        if (line.local_nodes.size() <= i) line.local_nodes.resize(line.parts.positional.size(), IdTable::none);
+        std::uint32_t& local = line.local_nodes[i];
+        if (local == IdTable::none)
+            local = local_nodes.try_emplace(to_lower(text), static_cast<std::uint32_t>(local_nodes.size())).first->second;
+        return local;
     }
 };
 
@@ -53,9 +77,15 @@ struct Element {
     const LineParts& parts;
     const std::string& name;  // lower case
     char letter;
+    Definition* definition = nullptr;  // a subcircuit's line: the definition and the line's
+    ElementBuffers* memo = nullptr;    // buffers, which keep what its instances share
 
     Element(const LogicalLine* l, const ElementBuffers& b)
         : line(l), tokens(b.tokens), parts(b.parts), name(b.name), letter(b.name[0]) {}
+    Element(const LogicalLine* l, ElementBuffers& b, Definition& d) : Element(l, b) {
+        definition = &d;
+        memo = &b;
+    }
     Location at(const Token& t) const { return line->locate(t.offset); }
     Location end() const { return line->locate(line->text.size()); }
     std::size_t count() const { return parts.positional.size(); }
@@ -100,9 +130,10 @@ struct Draft {
     std::string name;
     std::size_t local_length = 0;
     struct Terminal {
-        std::string role;
+        std::uint32_t role = 0;  // into the netlist's words
         std::string net;
-        std::uint32_t hash = 0;  // of the net, for the netlist's net index
+        std::uint32_t hash = 0;           // of the net, for the netlist's net index
+        std::uint32_t id = IdTable::none;  // the net's id when already known (then `net` is empty)
     };
     std::vector<Terminal> terminals;
     std::uint32_t name_hash = 0;  // for the device index
@@ -324,10 +355,11 @@ private:
     IdTable device_names_;  // out_.devices by name
     IdTable nets_;          // out_.nets
     IdTable words_;         // out_.words
+    std::unordered_map<const char*, std::uint32_t> literal_words_;  // role_word()'s
     std::unordered_map<const std::string*, std::uint32_t> source_files_;  // into out_.source_files
     Draft draft_;           // the device being built
     ElementBuffers line_;  // the top-level line being read
-    std::unordered_map<const SubcktDef*, std::vector<ElementBuffers>> definitions_;  // each one's lines, read
+    std::unordered_map<const SubcktDef*, Definition> definitions_;  // each one's lines, read
     std::unordered_map<const SubcktDef*, std::size_t> estimates_;  // devices per definition
     std::unordered_map<std::string, std::size_t> models_;  // index into out_.models, by ngspice name
     struct LastModel {
@@ -382,21 +414,22 @@ private:
 
     // A subcircuit's lines are read once, for its first instance; the top level's are read
     // one at a time into buffers that keep their storage, as each is visited once.
-    const std::vector<ElementBuffers>& read_definition(const SubcktDef& def) {
+    Definition& read_definition(const SubcktDef& def) {
         auto [it, inserted] = definitions_.try_emplace(&def);
         if (inserted) {
             std::vector<ElementBuffers> lines(def.elements.size());
             for (std::size_t i = 0; i < lines.size(); ++i) lines[i].read(*def.elements[i]);
-            it->second = std::move(lines);
+            it->second.lines = std::move(lines);
         }
         return it->second;
     }
 
     void expand(const Instance& inst) {
         if (inst.def != &deck_.top) {
-            const std::vector<ElementBuffers>& lines = read_definition(*inst.def);
+            Definition& definition = read_definition(*inst.def);
+            std::vector<ElementBuffers>& lines = definition.lines;
             for (std::size_t i = 0; i < lines.size(); ++i) {
-                Element el(inst.def->elements[i], lines[i]);
+                Element el(inst.def->elements[i], lines[i], definition);
                 if (el.letter == 'x') instantiate(inst, el);
                 else add(inst, el);
             }
@@ -628,21 +661,46 @@ private:
         return d;
     }
 
-    void add_terminal(Draft& d, std::string role, std::string net) const {
+    // A terminal's role as a word of the netlist: most are written in this file, and those
+    // are looked up by address.
+    std::uint32_t role_word(const char* literal) {
+        auto [it, inserted] = literal_words_.try_emplace(literal, 0);
+        if (inserted) it->second = intern(words_, out_.words, literal);
+        return it->second;
+    }
+    std::uint32_t role_word(const std::string& text) { return intern(words_, out_.words, text); }
+
+    void add_terminal(Draft& d, std::uint32_t role, std::string net) const {
         const std::uint32_t hash = nets_.prefetch(net);
-        d.terminals.push_back({std::move(role), std::move(net), hash});
+        d.terminals.push_back({role, std::move(net), hash});
+    }
+
+    // A terminal on the net that the element's positional token `i` names. In a
+    // subcircuit's line the net is the instance's for that local node, resolved the first
+    // time the instance uses the node; a top-level line's nets are looked up at commit().
+    void add_node(Draft& d, std::uint32_t role, const Instance& inst, const Element& el, std::size_t i,
+                  std::string_view expected) {
+        const Token& t = node_token(el, i, expected);
+        if (!el.definition) return add_terminal(d, role, net_name(inst, t));
+        const std::uint32_t local = el.definition->local_node(*el.memo, i, t.text);
+        if (inst.nets.size() <= local) inst.nets.resize(local + 1, IdTable::none);
+        std::uint32_t& id = inst.nets[local];
+        if (id == IdTable::none) {
+            const std::string net = net_name(inst, t);
+            id = intern_net(net, nets_.prefetch(net));
+        }
+        d.terminals.push_back({role, {}, 0, id});
     }
 
     void connect(const Instance& inst, const Element& el, Draft& d, std::size_t first,
-                 std::initializer_list<const char*> roles, std::string_view expected) const {
+                 std::initializer_list<const char*> roles, std::string_view expected) {
         std::size_t i = first;
-        for (const char* role : roles) add_terminal(d, role, net_name(inst, node_token(el, i++, expected)));
+        for (const char* role : roles) add_node(d, role_word(role), inst, el, i++, expected);
     }
 
     void connect_n(const Instance& inst, const Element& el, Draft& d, std::size_t count,
-                   const std::array<const char*, 6>& roles) const {
-        for (std::size_t i = 0; i < count; ++i)
-            add_terminal(d, roles[i], net_name(inst, node_token(el, i, "")));
+                   const std::array<const char*, 6>& roles) {
+        for (std::size_t i = 0; i < count; ++i) add_node(d, role_word(roles[i]), inst, el, i, "");
     }
 
     double value_at(const Instance& inst, const Element& el, std::size_t i) const {
@@ -652,7 +710,20 @@ private:
     }
 
     void named_parameters(const Instance& inst, const Element& el, Draft& d) const {
-        for (const NamedValue& nv : el.parts.named) d.parameters[nv.name] = evaluate(nv.value, inst.scope);
+        if (!el.memo) {
+            for (const NamedValue& nv : el.parts.named) d.parameters[nv.name] = evaluate(nv.value, inst.scope);
+            return;
+        }
+        // A subcircuit's line: a value written as a plain number is the same in every
+        // instance, and is read once.
+        std::vector<std::optional<double>>& numbers = el.memo->named_numbers;
+        if (numbers.empty()) {
+            for (const NamedValue& nv : el.parts.named) numbers.push_back(parse_spice_number(nv.value.text));
+        }
+        for (std::size_t k = 0; k < el.parts.named.size(); ++k) {
+            const NamedValue& nv = el.parts.named[k];
+            d.parameters[nv.name] = numbers[k] ? *numbers[k] : evaluate(nv.value, inst.scope);
+        }
     }
 
     static void apply_multiplier(const Instance& inst, Draft& d) {
@@ -704,7 +775,8 @@ private:
         f.value = d.value;
         f.terminals = {static_cast<std::uint32_t>(out_.terminal_table.size()), static_cast<std::uint32_t>(d.terminals.size())};
         for (const Draft::Terminal& t : d.terminals)
-            out_.terminal_table.push_back({intern(words_, out_.words, t.role), intern_net(t.net, t.hash)});
+            out_.terminal_table.push_back(
+                {t.role, t.id != IdTable::none ? t.id : intern_net(t.net, t.hash)});
         f.parameters = {static_cast<std::uint32_t>(out_.parameter_table.size()),
                         static_cast<std::uint32_t>(d.parameters.items.size())};
         for (const auto& [name, value] : d.parameters.items)
@@ -854,8 +926,8 @@ private:
         if (el.is_word(i, "poly")) {
             std::size_t n = poly_dimension(inst, el, i);
             for (std::size_t k = 0; k < n; ++k) {
-                add_terminal(d, "cpos" + std::to_string(k + 1), net_name(inst, node_token(el, i++, "control nodes")));
-                add_terminal(d, "cneg" + std::to_string(k + 1), net_name(inst, node_token(el, i++, "control nodes")));
+                add_node(d, role_word("cpos" + std::to_string(k + 1)), inst, el, i++, "control nodes");
+                add_node(d, role_word("cneg" + std::to_string(k + 1)), inst, el, i++, "control nodes");
             }
             d.text["polynomial"] = el.text_after(i - 1);
         } else if (behavioural) {
@@ -974,7 +1046,7 @@ private:
             if (t.kind != TokenKind::word || t.text[0] == '%' || t.text[0] == '~') continue;
             std::string node = to_lower(t.text);
             if (node == "null") continue;
-            add_terminal(d, "n" + std::to_string(++port), net_name(inst, t));
+            add_terminal(d, role_word("n" + std::to_string(++port)), net_name(inst, t));
         }
         const Token& model = el.positional(el.count() - 1);
         if (names_model(inst, model)) d.model = resolve_model(inst, el, model, d);

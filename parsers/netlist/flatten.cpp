@@ -131,9 +131,12 @@ struct Draft {
     std::size_t local_length = 0;
     struct Terminal {
         std::uint32_t role = 0;  // into the netlist's words
-        std::string net;
-        std::uint32_t hash = 0;           // of the net, for the netlist's net index
-        std::uint32_t id = IdTable::none;  // the net's id when already known (then `net` is empty)
+        std::string owned;       // the net's name when made here, else
+        std::string_view text;   // the net's name as written in the file (or "0")
+        std::uint32_t hash = 0;            // of the net, for the netlist's net index
+        std::uint32_t id = IdTable::none;  // the net's id when already known (then no name)
+
+        std::string_view net() const { return owned.empty() ? text : std::string_view(owned); }
     };
     std::vector<Terminal> terminals;
     std::uint32_t name_hash = 0;  // for the device index
@@ -459,8 +462,9 @@ private:
 
     std::string net_name(const Instance& inst, const Token& t) const {
         std::string node = to_lower(t.text);
-        if (node == "0" || node == "gnd") return "0";
-        if (deck_.globals.count(node)) return node;
+        const std::string_view n = node;
+        if (n == "0" || n == "gnd") return "0";
+        if (!deck_.globals.empty() && deck_.globals.count(node)) return node;
         if (auto it = inst.ports.find(node); it != inst.ports.end()) return it->second;
         if (inst.path.empty()) return node;
         std::string net;
@@ -672,7 +676,7 @@ private:
 
     void add_terminal(Draft& d, std::uint32_t role, std::string net) const {
         const std::uint32_t hash = nets_.prefetch(net);
-        d.terminals.push_back({role, std::move(net), hash});
+        d.terminals.push_back({role, std::move(net), {}, hash});
     }
 
     // A terminal on the net that the element's positional token `i` names. In a
@@ -681,7 +685,17 @@ private:
     void add_node(Draft& d, std::uint32_t role, const Instance& inst, const Element& el, std::size_t i,
                   std::string_view expected) {
         const Token& t = node_token(el, i, expected);
-        if (!el.definition) return add_terminal(d, role, net_name(inst, t));
+        if (!el.definition) {
+            // A top-level node written in lower case is its net's name (see net_name()), and
+            // the file's bytes outlive the flattening: no copy of it is made.
+            const std::string_view text = t.text;
+            if (inst.path.empty() && inst.ports.empty() && !has_upper(text)) {
+                const std::string_view net = text == "gnd" ? std::string_view("0") : text;
+                d.terminals.push_back({role, {}, net, nets_.prefetch(net)});
+                return;
+            }
+            return add_terminal(d, role, net_name(inst, t));
+        }
         const std::uint32_t local = el.definition->local_node(*el.memo, i, t.text);
         if (inst.nets.size() <= local) inst.nets.resize(local + 1, IdTable::none);
         std::uint32_t& id = inst.nets[local];
@@ -689,7 +703,7 @@ private:
             const std::string net = net_name(inst, t);
             id = intern_net(net, nets_.prefetch(net));
         }
-        d.terminals.push_back({role, {}, 0, id});
+        d.terminals.push_back({role, {}, {}, 0, id});
     }
 
     void connect(const Instance& inst, const Element& el, Draft& d, std::size_t first,
@@ -776,7 +790,7 @@ private:
         f.terminals = {static_cast<std::uint32_t>(out_.terminal_table.size()), static_cast<std::uint32_t>(d.terminals.size())};
         for (const Draft::Terminal& t : d.terminals)
             out_.terminal_table.push_back(
-                {t.role, t.id != IdTable::none ? t.id : intern_net(t.net, t.hash)});
+                {t.role, t.id != IdTable::none ? t.id : intern_net(t.net(), t.hash)});
         f.parameters = {static_cast<std::uint32_t>(out_.parameter_table.size()),
                         static_cast<std::uint32_t>(d.parameters.items.size())};
         for (const auto& [name, value] : d.parameters.items)

@@ -159,6 +159,16 @@ private:
                 control_line(line);
                 continue;
             }
+            // Most lines are elements: they need no word of their own lowered and compared.
+            if (const std::string_view text = line.text; !text.empty() && text[0] != '.') {
+                if (!in_section || !skipping.empty() || !reading()) continue;
+                if (is_space(text[0])) continue;  // no first word: nothing (as in statement())
+                if (!std::isalpha(static_cast<unsigned char>(text[0])))
+                    throw errors::netlist_syntax(line.locate(0), "an element name (a letter first) or a `.` statement",
+                                                 first_word(line));
+                current().elements.push_back(&line);
+                continue;
+            }
             const std::string head = first_word(line);
             if (head == ".lib" || head == ".endl") {
                 std::vector<Token> tokens = tokenize(line);
@@ -184,11 +194,12 @@ private:
         return found;
     }
 
+    static bool is_space(char c) { return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' || c == '\v'; }
+
     static std::string first_word(const LogicalLine& line) {
         std::size_t end = 0;
         const std::string_view text = line.text;
-        auto space = [](char c) { return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' || c == '\v'; };
-        while (end < text.size() && !space(text[end])) ++end;
+        while (end < text.size() && !is_space(text[end])) ++end;
         return to_lower(text.substr(0, end));
     }
 

@@ -29,6 +29,7 @@ struct Instance {
     // The net id of each of its definition's local nodes (see Definition), once resolved.
     mutable std::vector<std::uint32_t> nets;
     std::uint32_t id = no_index;  // its FlatInstance; no_index at the top
+    const LogicalLine* line = nullptr;  // its X line; none at the top
     std::size_t depth = 0;        // X lines above it
     // The `m` ngspice 39 writes onto every device line of this instance (see flatten.hpp).
     std::optional<double> forced_m;
@@ -324,7 +325,7 @@ public:
     // Each level is one C++ stack frame; no real design comes near.
     static constexpr std::size_t max_depth = 500;
 
-    explicit Flattener(const Deck& deck) : deck_(deck) {}
+    Flattener(const Deck& deck, const ReadLimits& limits) : deck_(deck), limits_(limits) {}
 
     FlatNetlist run() {
         Instance top;
@@ -354,6 +355,7 @@ public:
 
 private:
     const Deck& deck_;
+    const ReadLimits limits_;
     FlatNetlist out_;
     IdTable device_names_;  // out_.devices by name
     IdTable nets_;          // out_.nets
@@ -513,6 +515,7 @@ private:
         if (child.segments.empty() || def->parent != &deck_.top) child.segments.push_back(el.name);
         else child.segments.back() += "." + el.name;
         child.depth = inst.depth + 1;
+        child.line = el.line;
         child.id = static_cast<std::uint32_t>(out_.instances.size());
         out_.instances.push_back({el.name, subckt, {el.line->file(), el.line->first_line()}, inst.id});
         for (std::size_t i = 0; i < nodes; ++i) child.ports[def->ports[i]] = net_name(inst, node_token(el, i, ""));
@@ -774,6 +777,13 @@ private:
 
     // Moves the draft into the netlist's tables.
     void commit(const Instance& inst, const Element& el, Draft& d) {
+        if (out_.devices.size() >= limits_.max_devices) {
+            // Named at the outermost X line that leads here: the one to look at.
+            const Instance* outer = &inst;
+            while (outer->caller && outer->caller->caller) outer = outer->caller;
+            const Location where = outer->line ? outer->line->locate(0) : el.line->locate(0);
+            throw errors::too_many_devices(where, limits_.max_devices);
+        }
         const auto index = static_cast<std::uint32_t>(out_.devices.size());
         if (device_names_.insert_hashed(d.name, d.name_hash, index,
                                         [&](std::uint32_t i) -> std::string_view { return out_.devices[i].name; }) != index)
@@ -1070,6 +1080,6 @@ private:
 
 }  // namespace
 
-FlatNetlist flatten(const Deck& deck) { return Flattener(deck).run(); }
+FlatNetlist flatten(const Deck& deck, const ReadLimits& limits) { return Flattener(deck, limits).run(); }
 
 }  // namespace mirrorcheck::netlist::detail

@@ -35,6 +35,6 @@ namespace mirrorcheck::netlist::detail {
 
 // Throws InputError for unknown models or subcircuits, wrong node counts, undefined
 // parameters, recursive subcircuits and malformed element lines.
-FlatNetlist flatten(const Deck& deck);
+FlatNetlist flatten(const Deck& deck, const ReadLimits& limits = {});
 
 }  // namespace mirrorcheck::netlist::detail

@@ -6,9 +6,9 @@
 
 namespace mirrorcheck::netlist {
 
-FlatNetlist read_netlist(const std::filesystem::path& path) {
+FlatNetlist read_netlist(const std::filesystem::path& path, const ReadLimits& limits) {
     auto deck = detail::read_deck(path);
-    return detail::flatten(*deck);
+    return detail::flatten(*deck, limits);
 }
 
 }  // namespace mirrorcheck::netlist

@@ -165,8 +165,17 @@ struct FlatNetlist {
     std::vector<const FlatInstance*> hierarchy(const FlatDevice& d) const;
 };
 
+// How far the reader goes before it calls a deck hostile (or a mistake): each limit is
+// far above real designs, and reaching one is an InputError naming it and where.
+struct ReadLimits {
+    // Devices after flattening: a few subcircuit levels that each instantiate the next
+    // twice multiply into millions. The reader needs about 270 bytes a device, the commands
+    // that keep the whole circuit (list, peek, review) about 1 to 5 kB.
+    std::size_t max_devices = 2'000'000;
+};
+
 // Reads, expands and flattens the netlist at `path`. Throws InputError (codes "netlist.*",
 // "input.*") naming file:line:column and what was expected.
-FlatNetlist read_netlist(const std::filesystem::path& path);
+FlatNetlist read_netlist(const std::filesystem::path& path, const ReadLimits& limits = {});
 
 }  // namespace mirrorcheck::netlist

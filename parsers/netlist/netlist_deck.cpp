@@ -101,6 +101,11 @@ private:
     std::filesystem::path working_folder_;  // the top file's folder, where ngspice runs the deck
     std::vector<SubcktDef*> stack_;
     std::vector<std::string> active_;  // files and sections being read, for cycles
+    std::unordered_map<std::string, std::size_t> reads_;  // times each file and section was read
+    static constexpr std::size_t max_include_depth = 100;
+    static constexpr std::size_t max_reads_per_file = 1000;
+    // As deep as the flattener instantiates (its max_depth); the definitions' own walks recurse.
+    static constexpr std::size_t max_subckt_nesting = 500;
     // `.if` blocks: for each open one, whether a branch was taken and whether lines are read.
     struct Conditional {
         bool taken = false;
@@ -313,6 +318,8 @@ private:
         if (tokens.size() < 2 || tokens[1].kind != TokenKind::word)
             throw errors::netlist_syntax(line.locate(line.text.size()), "a subcircuit name after `.subckt`",
                                          tokens.size() > 1 ? tokens[1].text : "");
+        if (stack_.size() > max_subckt_nesting)
+            throw errors::subckt_nesting_too_deep(line.locate(0), max_subckt_nesting);
         auto def = std::make_unique<SubcktDef>();
         def->name = to_lower(tokens[1].text);
         def->parent = &current();
@@ -446,8 +453,11 @@ private:
                    const Context& context, bool library) {
         Location where = line.locate(0);
         std::string key = canonical_key(path, section);
-        if (std::find(active_.begin(), active_.end(), key) != active_.end())
-            throw errors::include_cycle(where, section.empty() ? path.string() : path.string() + " " + section);
+        const std::string named = section.empty() ? path.string() : path.string() + " " + section;
+        if (std::find(active_.begin(), active_.end(), key) != active_.end()) throw errors::include_cycle(where, named);
+        // Each level is a few C++ stack frames.
+        if (active_.size() >= max_include_depth) throw errors::include_too_deep(where, max_include_depth);
+        if (++reads_[key] > max_reads_per_file) throw errors::included_too_often(where, named, reads_[key]);
         const SplitFile& file = load(path, &where, false, context.role, library);
         active_.push_back(key);
         if (!run(file, path, section, context)) throw errors::missing_lib_section(where, path.string(), section);

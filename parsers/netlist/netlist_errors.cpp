@@ -70,6 +70,31 @@ InputError hierarchy_too_deep(const Location& where, std::size_t levels) {
             fmt::format("subcircuits are nested more than {} levels deep here; this reader stops there", levels)};
 }
 
+InputError too_many_devices(const Location& where, std::size_t limit) {
+    return {"netlist.too-many-devices", where,
+            fmt::format("this instance takes the flattened circuit past {} devices; this reader stops there "
+                        "(raise the limit with --max-devices if the circuit is really that large)",
+                        limit)};
+}
+
+InputError subckt_nesting_too_deep(const Location& where, std::size_t levels) {
+    return {"netlist.too-deep", where,
+            fmt::format("`.subckt` definitions are nested more than {} levels deep here; this reader stops there",
+                        levels)};
+}
+
+InputError include_too_deep(const Location& where, std::size_t levels) {
+    return {"netlist.include-too-deep", where,
+            fmt::format("files include each other more than {} levels deep here; this reader stops there", levels)};
+}
+
+InputError included_too_often(const Location& where, std::string_view file, std::size_t times) {
+    return {"netlist.included-too-often", where,
+            fmt::format("`{}` is read for the {}th time here; files that include the next one more than once "
+                        "multiply the reading, and this reader stops there",
+                        file, times)};
+}
+
 InputError missing_include(const Location& where, std::string_view file, std::string_view reason) {
     return {"netlist.missing-include", where,
             fmt::format("cannot read the included file `{}`: {} (as ngspice run in the deck's folder, a relative "

@@ -22,6 +22,10 @@ InputError wrong_node_count(const Location& where, std::string_view device, std:
 InputError missing_nodes(const Location& where, std::string_view device, std::string_view expected);
 InputError recursive_subckt(const Location& where, std::string_view name);
 InputError hierarchy_too_deep(const Location& where, std::size_t levels);
+InputError too_many_devices(const Location& where, std::size_t limit);
+InputError subckt_nesting_too_deep(const Location& where, std::size_t levels);
+InputError include_too_deep(const Location& where, std::size_t levels);
+InputError included_too_often(const Location& where, std::string_view file, std::size_t times);
 InputError missing_include(const Location& where, std::string_view file, std::string_view reason);
 InputError missing_library(const Location& where, std::string_view file, std::string_view reason);
 InputError include_cycle(const Location& where, std::string_view file);

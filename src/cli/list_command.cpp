@@ -3,6 +3,7 @@
 #include <iostream>
 #include <memory>
 
+#include "src/cli/netlist_limits_option.hpp"
 #include "src/model/circuit_build.hpp"
 #include "src/recognise/find_mirrors.hpp"
 #include "src/report/mirror_list.hpp"
@@ -13,10 +14,11 @@ namespace {
 struct ListOptions {
     std::string netlist;
     std::string format = "table";
+    netlist::ReadLimits limits;
 };
 
 int run_list(const ListOptions& o) {
-    Circuit circuit = read_circuit(o.netlist);
+    Circuit circuit = read_circuit(o.netlist, o.limits);
     std::vector<Mirror> mirrors = find_mirrors(circuit);
     if (o.format == "json") std::cout << report::mirrors_to_json(circuit, mirrors).dump(2) << "\n";
     else std::cout << report::write_mirror_table(circuit, mirrors);
@@ -37,6 +39,7 @@ void add_list_command(CLI::App& app, int& status) {
         "  mirrorcheck list amp.cir --format json");
     cmd->add_option("NETLIST", options->netlist, "ngspice netlist")->required()->check(CLI::ExistingFile);
     cmd->add_option("--format", options->format, "output format")->check(CLI::IsMember({"table", "json"}));
+    add_netlist_limit_options(*cmd, options->limits);
     cmd->callback([options, &status] { status = run_list(*options); });
 }
 

@@ -7,6 +7,7 @@
 #include "parsers/listing/listing.hpp"
 #include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
+#include "src/cli/netlist_limits_option.hpp"
 #include "src/cli/usage_errors.hpp"
 #include "src/report/circuit_dump.hpp"
 #include "src/report/listing_dump.hpp"
@@ -20,6 +21,7 @@ struct PeekOptions {
     std::vector<std::string> vectors;
     std::vector<std::string> plots;
     std::string format = "table";
+    netlist::ReadLimits limits;  // a netlist's
 };
 
 void check_vectors_exist(const raw::RawFile& raw, const std::vector<std::string>& vectors) {
@@ -48,7 +50,7 @@ void peek_listing(const PeekOptions& o) {
 
 void peek_netlist(const PeekOptions& o) {
     if (!o.vectors.empty() || !o.plots.empty()) throw usage::option_needs_raw(o.file);
-    Circuit circuit = read_circuit(o.file);
+    Circuit circuit = read_circuit(o.file, o.limits);
     if (o.format == "json") std::cout << report::circuit_to_json(circuit).dump(2) << "\n";
     else std::cout << report::write_circuit_table(circuit);
 }
@@ -86,6 +88,7 @@ void add_peek_command(CLI::App& app, int& status) {
                     "their values; repeatable");
     cmd->add_option("--format", options->format, "output format")
         ->check(CLI::IsMember({"table", "json"}));
+    add_netlist_limit_options(*cmd, options->limits);
     cmd->callback([options, &status] { status = run_peek(*options); });
 }
 

@@ -11,6 +11,7 @@
 
 #include "parsers/netlist/netlist.hpp"
 #include "parsers/raw/raw.hpp"
+#include "src/cli/netlist_limits_option.hpp"
 #include "src/cli/review_command.hpp"
 #include "src/cli/usage_errors.hpp"
 #include "src/deck/ngspice_runner.hpp"
@@ -29,6 +30,7 @@ struct DeckRequest {
     std::string from = "1Hz", to = "1GHz";
     int points_per_decade = 10;
     bool no_alone = false;
+    netlist::ReadLimits limits;
 };
 
 void add_deck_options(CLI::App& cmd, DeckRequest& r) {
@@ -44,6 +46,7 @@ void add_deck_options(CLI::App& cmd, DeckRequest& r) {
     cmd.add_flag("--no-alone", r.no_alone,
                  "do not measure each mirror alone (by default the deck also runs, for every mirror, a testbench "
                  "of the mirror by itself at the circuit's operating point)");
+    add_netlist_limit_options(cmd, r.limits);
 }
 
 DeckOptions deck_options(const DeckRequest& r) {
@@ -67,7 +70,7 @@ struct Prepared {
 Prepared prepare_deck(const DeckRequest& r, DeckOptions options, const fs::path& deck_path, const fs::path& raw_path) {
     options.deck_path = deck_path;
     options.raw_path = raw_path;
-    const netlist::FlatNetlist netlist = netlist::read_netlist(r.netlist);
+    const netlist::FlatNetlist netlist = netlist::read_netlist(r.netlist, r.limits);
     Prepared p{build_circuit(netlist), {}};
     p.deck = write_review_deck(netlist, p.circuit, find_mirrors(p.circuit), options);
     // Never write over a file the deck reads.

@@ -10,6 +10,7 @@
 #include "src/model/circuit_build.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/analyse/pipeline.hpp"
+#include "src/cli/netlist_limits_option.hpp"
 #include "src/cli/usage_errors.hpp"
 #include "src/model/op_point_build.hpp"
 #include "src/model/simulation_plots_build.hpp"
@@ -142,7 +143,7 @@ int review_with(const ReviewOptions& o, const ReviewSettings& settings, const Ci
 
 int review_and_report(const ReviewOptions& o) {
     const ReviewSettings settings = review_settings(o);
-    return review_with(o, settings, read_circuit(o.netlist), {});
+    return review_with(o, settings, read_circuit(o.netlist, o.limits), {});
 }
 
 int review_circuit_and_report(const ReviewOptions& o, const Circuit& circuit, const std::vector<std::string>& left_out) {
@@ -201,6 +202,7 @@ void add_review_command(CLI::App& app, int& status) {
     cmd->add_option("--ac", o->ac, "raw file with AC plots probing the outputs (repeatable; the --op raw file is read too)")
         ->check(CLI::ExistingFile);
     cmd->add_option("--tf", o->tf, "raw file with .tf plots naming the probes (repeatable)")->check(CLI::ExistingFile);
+    add_netlist_limit_options(*cmd, o->limits);
     cmd->add_option("--probe", o->probes, "NODE=SOURCE: the source that probes output NODE (repeatable)");
     add_judgement_options(*cmd, *o);
     cmd->callback([o, &status] { status = review_and_report(*o); });

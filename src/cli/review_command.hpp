@@ -6,6 +6,7 @@
 
 #include <CLI/CLI.hpp>
 
+#include "parsers/netlist/netlist.hpp"
 #include "src/model/circuit.hpp"
 
 namespace mirrorcheck::cli {
@@ -27,6 +28,7 @@ struct ReviewOptions {
     std::vector<std::string> waive;   // waiver files
     std::string fail_on = "error";    // the severity that fails the review (exit 1, JUnit failures)
     bool summary = false;             // the table's verdict and summary rows alone
+    netlist::ReadLimits limits;       // --max-devices
 };
 
 // Reads the inputs, reviews, prints the report; returns 1 when a finding fails the review

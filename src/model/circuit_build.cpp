@@ -76,6 +76,8 @@ Circuit build_circuit(const netlist::FlatNetlist& netlist) {
     return circuit;
 }
 
-Circuit read_circuit(const std::filesystem::path& path) { return build_circuit(netlist::read_netlist(path)); }
+Circuit read_circuit(const std::filesystem::path& path, const netlist::ReadLimits& limits) {
+    return build_circuit(netlist::read_netlist(path, limits));
+}
 
 }  // namespace mirrorcheck

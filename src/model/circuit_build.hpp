@@ -12,6 +12,6 @@ namespace mirrorcheck {
 Circuit build_circuit(const netlist::FlatNetlist& netlist);
 
 // Reads the netlist at `path` and builds its Circuit; throws the reader's InputError.
-Circuit read_circuit(const std::filesystem::path& path);
+Circuit read_circuit(const std::filesystem::path& path, const netlist::ReadLimits& limits = {});
 
 }  // namespace mirrorcheck

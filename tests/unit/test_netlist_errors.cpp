@@ -153,6 +153,73 @@ TEST_CASE("pathological nesting is refused, not a stack overflow") {
     }
 }
 
+// Decks that are small on disk and huge or deep once read (found by a hostile probe): each
+// must end in an InputError naming its limit, quickly, never a crash or gigabytes.
+TEST_CASE("a subcircuit bomb stops at the device limit, at the outermost X line") {
+    Decks decks;
+    // Each level instantiates the next twice: 2^20 resistors from 21 short definitions.
+    std::string bomb = "bomb\n.subckt l20 a\nR1 a 0 1\n.ends\n";
+    for (int i = 19; i >= 0; --i)
+        bomb += ".subckt l" + std::to_string(i) + " a\nXa a l" + std::to_string(i + 1) + "\nXb a l" +
+                std::to_string(i + 1) + "\n.ends\n";
+    bomb += "V1 a 0 1\nXtop a l0\n";
+    const auto path = decks.write("bomb.cir", bomb);
+    mirrorcheck::netlist::ReadLimits limits;
+    limits.max_devices = 100'000;
+    try {
+        mirrorcheck::netlist::read_netlist(path, limits);
+        FAIL("the bomb was read");
+    } catch (const InputError& e) {
+        CHECK(e.code() == "netlist.too-many-devices");
+        CHECK(e.where().line == 86);  // `Xtop a l0`
+        CHECK(e.message().find("past 100000 devices") != std::string::npos);
+        CHECK(e.message().find("--max-devices") != std::string::npos);
+    }
+    limits.max_devices = 2'000'000;  // raised: 2^20 + 1 devices read
+    CHECK(mirrorcheck::netlist::read_netlist(path, limits).devices.size() == (1u << 20) + 1);
+}
+
+TEST_CASE("30,000 nested definitions and an 8,000-file include chain are refused, not a stack overflow") {
+    Decks decks;
+    std::string nested = "nested\n";
+    for (int i = 0; i < 30000; ++i) nested += ".subckt s" + std::to_string(i) + " a\n";
+    try {
+        mirrorcheck::netlist::read_netlist(decks.write("nested.cir", nested));
+        FAIL("30,000 nested definitions were read");
+    } catch (const InputError& e) {
+        CHECK(e.code() == "netlist.too-deep");
+        CHECK(e.where().line == 502);  // the 501st `.subckt`, inside 500
+        CHECK(e.message().find("more than 500 levels") != std::string::npos);
+    }
+    for (int i = 0; i < 8000; ++i)
+        decks.write("inc" + std::to_string(i) + ".sp", ".include inc" + std::to_string(i + 1) + ".sp\n");
+    decks.write("inc8000.sp", "R1 a 0 1\n");
+    try {
+        mirrorcheck::netlist::read_netlist(decks.write("chain.cir", "chain\n.include inc0.sp\n"));
+        FAIL("an 8,000-file include chain was read");
+    } catch (const InputError& e) {
+        CHECK(e.code() == "netlist.include-too-deep");
+        // The deck and inc0 ... inc98 open: inc98's `.include` would be the 101st.
+        CHECK(e.where().file.find("inc98.sp") != std::string::npos);
+        CHECK(e.message().find("more than 100 levels") != std::string::npos);
+    }
+}
+
+TEST_CASE("files that each include the next one twice stop long before 2^24 reads") {
+    Decks decks;
+    for (int i = 0; i < 25; ++i)
+        decks.write("f" + std::to_string(i) + ".sp",
+                    ".include f" + std::to_string(i + 1) + ".sp\n.include f" + std::to_string(i + 1) + ".sp\n");
+    decks.write("f25.sp", ".param p=1\n");
+    try {
+        mirrorcheck::netlist::read_netlist(decks.write("twice.cir", "twice\n.include f0.sp\nR1 a 0 {p}\n"));
+        FAIL("the include bomb was read");
+    } catch (const InputError& e) {
+        CHECK(e.code() == "netlist.included-too-often");
+        CHECK(e.message().find("for the 1001th time") != std::string::npos);
+    }
+}
+
 TEST_CASE("mutated netlists never crash: they read, or give an InputError") {
     const std::vector<std::string> seeds = {
         "mutations\n.param w0=1u k={2*w0}\n.subckt cell d g s w=1u params: l=1u\nM1 d g s s nch w={w} l='l*2'\n"

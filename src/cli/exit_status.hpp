@@ -1,8 +1,10 @@
 // mirrorcheck's exit statuses, and the guard that maps what a command throws to them.
 #pragma once
 
+#include <array>
 #include <exception>
 #include <ostream>
+#include <string_view>
 
 #include "parsers/common/input_error.hpp"
 
@@ -12,6 +14,19 @@ inline constexpr int exit_passed = 0;          // no unwaived finding at the fai
 inline constexpr int exit_findings = 1;        // some
 inline constexpr int exit_bad_input = 2;       // bad usage or unreadable input (an InputError)
 inline constexpr int exit_internal_error = 3;  // anything else: a bug to report
+
+// What each status means, for --help and the man page.
+struct ExitStatusMeaning {
+    int status;
+    std::string_view meaning;
+};
+inline constexpr std::array<ExitStatusMeaning, 4> exit_status_meanings{{
+    {exit_passed, "no unwaived finding at the failing severity (--fail-on, default error)"},
+    {exit_findings, "some unwaived finding at the failing severity"},
+    {exit_bad_input, "bad usage or unreadable input; the message names the file, the line or byte offset, and what "
+                     "was expected"},
+    {exit_internal_error, "an internal error (please report it with the input files)"},
+}};
 
 // Runs `command` (which returns an exit status) and turns an InputError into its message and
 // status 2, any other exception into an internal-error message and status 3.

@@ -2,10 +2,12 @@
 // Exit status (exit_status.hpp): 0 nothing at the failing severity, 1 findings at it, 2 bad
 // usage or unreadable input, 3 an internal error.
 #include <iostream>
+#include <string>
 
 #include <CLI/CLI.hpp>
 
 #include "src/analyse/review_tree.hpp"
+#include "src/cli/describe_command.hpp"
 #include "src/cli/exit_status.hpp"
 #include "src/cli/list_command.hpp"
 #include "src/cli/peek_command.hpp"
@@ -17,17 +19,19 @@ int main(int argc, char** argv) {
     CLI::App app{"mirrorcheck: checks the current mirrors of a circuit simulated with ngspice"};
     app.require_subcommand(1);
     const mirrorcheck::ToolInfo tool = mirrorcheck::this_tool();
-    app.set_version_flag("--version", tool.name + " " + tool.version +
-                                          (tool.revision.empty() ? "" : " (revision " + tool.revision + ")"));
-    app.footer(
-        "Exit status: 0 no unwaived finding at the failing severity (--fail-on, default error),\n"
-        "1 some, 2 bad usage or unreadable input, 3 an internal error (please report it).");
+    app.set_version_flag("--version", tool.name + " " + tool.version + " (" +
+                                          (tool.revision.empty() ? "unknown revision" : "revision " + tool.revision) +
+                                          ")");
+    std::string exit_statuses = "Exit status:";
+    for (const auto& e : exit_status_meanings) exit_statuses += "\n  " + std::to_string(e.status) + "  " + std::string(e.meaning);
+    app.footer(exit_statuses);
     int status = 0;
     add_list_command(app, status);
     add_peek_command(app, status);
     add_review_command(app, status);
     add_prepare_command(app, status);
     add_run_command(app, status);
+    add_describe_command(app, status);  // hidden: the man page and completion, from everything above
     return run_guarded(
         [&] {
             try {

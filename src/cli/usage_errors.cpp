@@ -82,4 +82,8 @@ InputError no_temporary_folder(const std::string& where) {
     return {"usage.temporary-folder", Location(where), "cannot create a temporary folder"};
 }
 
+InputError cannot_write(const std::string& path) {
+    return {"usage.cannot-write", Location(path), "cannot write this file"};
+}
+
 }  // namespace mirrorcheck::cli::usage

@@ -21,5 +21,6 @@ InputError sweep_not_upwards(const std::string& from, const std::string& to);
 InputError would_overwrite_input(const std::string& output, const std::string& input);
 InputError copy_would_overwrite_input(const std::string& copy);
 InputError no_temporary_folder(const std::string& where);
+InputError cannot_write(const std::string& path);
 
 }  // namespace mirrorcheck::cli::usage

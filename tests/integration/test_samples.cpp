@@ -283,7 +283,7 @@ TEST_CASE("run on the sky130 sample: the expected JSON, valid, and its isink Rou
 
 TEST_CASE("the README quotes the top of the sky130 sample's run table as it is") {
     const std::string quoted =
-        fenced_block_after(read_text(source_dir / "README.md"), "build/mirrorcheck run samples/tamarack_vcm/tk2_vcm.spice");
+        fenced_block_after(read_text(source_dir / "README.md"), "mirrorcheck run samples/tamarack_vcm/tk2_vcm.spice");
     REQUIRE_MESSAGE(!quoted.empty(), "no quoted run output in README.md");
     const std::string expected = read_text(vcm_sample / "expected" / "run.txt");
     CHECK(expected.compare(0, quoted.size(), quoted) == 0);

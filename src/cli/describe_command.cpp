@@ -1,0 +1,47 @@
+#include "src/cli/describe_command.hpp"
+
+#include <fstream>
+#include <iostream>
+#include <memory>
+#include <string>
+
+#include "src/cli/bash_completion.hpp"
+#include "src/cli/cli_outline.hpp"
+#include "src/cli/man_page.hpp"
+#include "src/cli/usage_errors.hpp"
+
+namespace mirrorcheck::cli {
+namespace {
+
+struct DescribeRequest {
+    std::string what;
+    std::string output;  // empty: stdout
+};
+
+int describe(const CLI::App& app, const DescribeRequest& r) {
+    const CliOutline outline = outline_command_line(app);
+    std::ofstream file;
+    if (!r.output.empty()) {
+        file.open(r.output, std::ios::binary | std::ios::trunc);
+        if (!file) throw usage::cannot_write(r.output);
+    }
+    std::ostream& out = r.output.empty() ? std::cout : file;
+    if (r.what == "man") write_man_page(outline, out);
+    else write_bash_completion(outline, out);
+    out.flush();
+    if (!out) throw usage::cannot_write(r.output.empty() ? "standard output" : r.output);
+    return 0;
+}
+
+}  // namespace
+
+void add_describe_command(CLI::App& app, int& status) {
+    auto r = std::make_shared<DescribeRequest>();
+    CLI::App* cmd = app.add_subcommand("describe-cli", "Write the man page or bash completion (used by the build)");
+    cmd->group("");  // hidden from --help, the man page and the completion
+    cmd->add_option("WHAT", r->what, "man or bash-completion")->required()->check(CLI::IsMember({"man", "bash-completion"}));
+    cmd->add_option("-o,--output", r->output, "the file to write (default: standard output)");
+    cmd->callback([r, &status, &app] { status = describe(app, *r); });
+}
+
+}  // namespace mirrorcheck::cli

@@ -4,6 +4,7 @@
 #include <algorithm>
 #include <array>
 #include <cctype>
+#include <cmath>
 #include <unordered_map>
 #include <unordered_set>
 
@@ -164,9 +165,15 @@ InputError expression_error(const ExpressionError& e, const ValueText& v) {
     return errors::bad_expression(v.where(e.offset), e.detail, v.text);
 }
 
+// A value the circuit uses: infinity or NaN (`1e400`, `{1/z}` with z = 0) is an input error.
+double finite(double value, const ValueText& v) {
+    if (!std::isfinite(value)) throw errors::non_finite_value(v.where(), v.text, value);
+    return value;
+}
+
 double evaluate(const ValueText& v, const Scope& scope) {
     try {
-        return evaluate_text(v.text, scope);
+        return finite(evaluate_text(v.text, scope), v);
     } catch (const ExpressionError& e) {
         throw expression_error(e, v);
     }
@@ -217,6 +224,32 @@ bool assign(const NamedValue& nv, Scope& scope, const Scope& from) {
     }
 }
 
+// Why none of the pending assignments can be evaluated: a name that is defined nowhere,
+// or a cycle (`a={b} b={a}`), followed from the first of them.
+InputError unresolved(const std::vector<const NamedValue*>& pending, const Scope& scope) {
+    std::vector<const NamedValue*> chain{pending.front()};
+    for (;;) {
+        const NamedValue& nv = *chain.back();
+        try {
+            evaluate_text(nv.value.text, scope);
+        } catch (const ExpressionError& e) {
+            if (e.kind != ExpressionError::Kind::undefined_name) return expression_error(e, nv.value);
+            auto next = std::find_if(pending.begin(), pending.end(), [&](const NamedValue* p) { return p->name == e.detail; });
+            if (next == pending.end()) return expression_error(e, nv.value);
+            auto seen = std::find(chain.begin(), chain.end(), *next);
+            if (seen != chain.end()) {
+                std::vector<std::string> names;
+                for (auto it = seen; it != chain.end(); ++it) names.push_back((*it)->name);
+                names.push_back((*seen)->name);
+                return errors::parameter_cycle((*seen)->value.where(), names);
+            }
+            chain.push_back(*next);
+            continue;
+        }
+        return errors::undefined_parameter(nv.value.where(), nv.name);  // evaluates after all: not reached
+    }
+}
+
 // Evaluates the global `.param` assignments in order, into `scope`. An assignment that
 // names a parameter defined further on is retried once the others are known.
 void evaluate_params(const std::vector<NamedValue>& list, Scope& scope) {
@@ -228,7 +261,7 @@ void evaluate_params(const std::vector<NamedValue>& list, Scope& scope) {
     while (!pending.empty()) {
         std::size_t before = pending.size();
         std::erase_if(pending, [&](const NamedValue* p) { return assign(*p, scope, scope); });
-        if (pending.size() == before) evaluate(pending.front()->value, scope);  // throws its error
+        if (pending.size() == before) throw unresolved(pending, scope);
     }
 }
 
@@ -637,7 +670,7 @@ private:
                 continue;
             }
             try {
-                model->parameters[nv.name] = evaluate_text(nv.value.text, scope);
+                model->parameters[nv.name] = finite(evaluate_text(nv.value.text, scope), nv.value);
             } catch (const ExpressionError& e) {
                 // `version=4.8.2`, `type=n`: not numbers, kept as written.
                 if (e.kind != ExpressionError::Kind::syntax) throw expression_error(e, nv.value);
@@ -735,7 +768,10 @@ private:
         // instance, and is read once.
         std::vector<std::optional<double>>& numbers = el.memo->named_numbers;
         if (numbers.empty()) {
-            for (const NamedValue& nv : el.parts.named) numbers.push_back(parse_spice_number(nv.value.text));
+            for (const NamedValue& nv : el.parts.named) {
+                numbers.push_back(parse_spice_number(nv.value.text));
+                if (numbers.back()) finite(*numbers.back(), nv.value);
+            }
         }
         for (std::size_t k = 0; k < el.parts.named.size(); ++k) {
             const NamedValue& nv = el.parts.named[k];
@@ -865,7 +901,7 @@ private:
         try {
             Expression e = Expression::compile(v.text);
             if (e.reads_circuit()) d.text["expression"] = v.text;
-            else d.value = e.evaluate(inst.scope);
+            else d.value = finite(e.evaluate(inst.scope), v);
         } catch (const ExpressionError& e) {
             throw expression_error(e, v);
         }

@@ -1,7 +1,10 @@
 // The netlist reader's error catalogue: messages for the person at the terminal.
 #include "parsers/netlist/netlist_errors.hpp"
 
+#include <cmath>
+
 #include <fmt/format.h>
+#include <fmt/ranges.h>
 
 namespace mirrorcheck::errors {
 
@@ -75,6 +78,18 @@ InputError too_many_devices(const Location& where, std::size_t limit) {
             fmt::format("this instance takes the flattened circuit past {} devices; this reader stops there "
                         "(raise the limit with --max-devices if the circuit is really that large)",
                         limit)};
+}
+
+InputError parameter_cycle(const Location& where, const std::vector<std::string>& names) {
+    return {"netlist.parameter-cycle", where,
+            fmt::format("the parameters are defined through each other: {}; none of them has a value",
+                        fmt::join(names, " -> "))};
+}
+
+InputError non_finite_value(const Location& where, std::string_view text, double value) {
+    return {"netlist.not-finite", where,
+            fmt::format("`{}` is {}; a value of the circuit must be a finite number", text,
+                        std::isnan(value) ? "not a number" : value > 0 ? "infinite" : "minus infinity")};
 }
 
 InputError subckt_nesting_too_deep(const Location& where, std::size_t levels) {

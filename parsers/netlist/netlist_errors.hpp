@@ -5,6 +5,7 @@
 #include <cstddef>
 #include <string>
 #include <string_view>
+#include <vector>
 
 #include "parsers/common/input_error.hpp"
 
@@ -23,6 +24,8 @@ InputError missing_nodes(const Location& where, std::string_view device, std::st
 InputError recursive_subckt(const Location& where, std::string_view name);
 InputError hierarchy_too_deep(const Location& where, std::size_t levels);
 InputError too_many_devices(const Location& where, std::size_t limit);
+InputError parameter_cycle(const Location& where, const std::vector<std::string>& names);
+InputError non_finite_value(const Location& where, std::string_view text, double value);
 InputError subckt_nesting_too_deep(const Location& where, std::size_t levels);
 InputError include_too_deep(const Location& where, std::size_t levels);
 InputError included_too_often(const Location& where, std::string_view file, std::size_t times);

@@ -10,6 +10,8 @@
 
 #include <cctype>
 #include <charconv>
+#include <cstdlib>
+#include <system_error>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -55,7 +57,11 @@ inline double spice_value(std::string_view text) {
         }
     }
     double mantissa = 0;
-    std::from_chars(text.data(), text.data() + i, mantissa);
+    if (std::from_chars(text.data(), text.data() + i, mantissa).ec == std::errc::result_out_of_range) {
+        // from_chars leaves the value alone then: strtod says which way it went (infinity for
+        // `1e400`, which the reader then refuses; zero or a denormal for `1e-400`).
+        mantissa = std::strtod(std::string(text.substr(0, i)).c_str(), nullptr);
+    }
     return mantissa * suffix_scale(text.substr(i));
 }
 

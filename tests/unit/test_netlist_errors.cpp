@@ -39,6 +39,14 @@ struct Malformed {
 };
 
 const std::vector<Malformed> catalogue = {
+    {"parameters defined through each other", "t\n.param a={b} b={c} c={a}\nR1 x 0 {a}\n", "netlist.parameter-cycle", 2,
+     11, "defined through each other: a -> b -> c -> a"},
+    {"a number too large for a double", "t\nR1 x 0 1e400\n", "netlist.not-finite", 2, 8, "`1e400` is infinite"},
+    {"a division by zero", "t\n.param z=0\nR1 x 0 {1/z}\n", "netlist.not-finite", 3, 9, "`1/z` is infinite"},
+    {"an infinite parameter of a subcircuit's line", "t\n.subckt s a\nR1 a 0 r=1e999\n.ends\nX1 x s\n",
+     "netlist.not-finite", 3, 10, "`1e999` is infinite"},
+    {"an infinite model parameter", "t\n.model d1 d is=1e400\nD1 a 0 d1\n", "netlist.not-finite", 2, 16,
+     "`1e400` is infinite"},
     {"unclosed brace", "t\nR1 a b {1+2\n", "netlist.unbalanced", 2, 8, "`{` is never closed"},
     {"unclosed quote", "t\nR1 a b '1+2\n", "netlist.unbalanced", 2, 8, "`'` is never closed"},
     {"undefined parameter", "t\nR1 a b {x*2}\n", "netlist.undefined-parameter", 2, 9, "parameter `x` is not defined"},

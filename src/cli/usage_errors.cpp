@@ -82,4 +82,9 @@ InputError no_temporary_folder(const std::string& where) {
     return {"usage.temporary-folder", Location(where), "cannot create a temporary folder"};
 }
 
+InputError min_yield_above_one(const std::string& text) {
+    return {"usage.min-yield", Location("--min-yield"),
+            fmt::format("--min-yield {} is above 100 %: expected a share of the runs, e.g. 95%", text)};
+}
+
 }  // namespace mirrorcheck::cli::usage

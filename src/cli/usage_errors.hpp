@@ -21,5 +21,7 @@ InputError sweep_not_upwards(const std::string& from, const std::string& to);
 InputError would_overwrite_input(const std::string& output, const std::string& input);
 InputError copy_would_overwrite_input(const std::string& copy);
 InputError no_temporary_folder(const std::string& where);
+// --min-yield above 100 %.
+InputError min_yield_above_one(const std::string& text);
 
 }  // namespace mirrorcheck::cli::usage

@@ -1,0 +1,189 @@
+#include "src/cli/sweep_command.hpp"
+
+#include <iostream>
+#include <memory>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "parsers/common/input_kind.hpp"
+#include "parsers/listing/listing.hpp"
+#include "parsers/raw/raw.hpp"
+#include "src/analyse/pipeline.hpp"
+#include "src/cli/exit_status.hpp"
+#include "src/cli/review_command.hpp"
+#include "src/cli/terminal.hpp"
+#include "src/cli/usage_errors.hpp"
+#include "src/model/circuit_build.hpp"
+#include "src/model/op_point_build.hpp"
+#include "src/model/simulation_plots_build.hpp"
+#include "src/report/sweep_report.hpp"
+#include "src/sweep/run_labels.hpp"
+#include "src/sweep/sweep_errors.hpp"
+#include "src/sweep/sweep_statistics.hpp"
+
+namespace mirrorcheck::cli {
+
+double min_yield_fraction(const std::string& text) {
+    const double y = quantity("--min-yield", text, "%");
+    if (y > 1.0) throw usage::min_yield_above_one(text);
+    return y;
+}
+
+namespace {
+
+struct SweepOptions {
+    ReviewOptions review;          // NETLIST and the judgement options
+    std::vector<std::string> ops;  // raw files (or listings) with the runs' operating points
+    std::string min_yield;
+};
+
+// The AC or .tf plots of the given files, in order, shared out over `runs` by plot order:
+// run k gets the k-th group of equal size.
+std::vector<std::vector<SimulationPlot>> plots_per_run(const std::vector<std::string>& files, std::size_t runs) {
+    std::vector<std::vector<SimulationPlot>> per_run(runs);
+    if (files.empty()) return per_run;
+    std::vector<SimulationPlot> plots;
+    for (const auto& path : files) {
+        if (detect_input_kind(path) != InputKind::raw) throw usage::no_small_signal_plot(path);
+        auto more = simulation_plots_from_raw(raw::read_raw(path, raw::Selection{{"ac", "tf"}, false}));
+        if (more.empty()) throw usage::no_small_signal_plot(path);
+        for (auto& p : more) plots.push_back(std::move(p));
+    }
+    if (runs == 0 || plots.size() % runs != 0) throw sweep::errors::plots_not_per_run(files.front(), plots.size(), runs);
+    const std::size_t each = plots.size() / runs;
+    for (std::size_t k = 0; k < plots.size(); ++k) per_run[k / each].push_back(std::move(plots[k]));
+    return per_run;
+}
+
+// One run to review: where its op is and what to call it.
+struct OpRun {
+    std::string path, label;
+    std::size_t plot = 0;  // index into the raw file's plots; unused for a listing
+};
+
+// The runs of every --op file: each op plot of a raw file, or a listing as one run.
+std::vector<OpRun> op_runs(const std::vector<std::string>& files) {
+    std::vector<OpRun> runs;
+    for (const auto& path : files) {
+        const InputKind kind = detect_input_kind(path);
+        if (kind == InputKind::listing) {
+            runs.push_back({path, sweep::op_plot_label(path, 0, 1)});
+            continue;
+        }
+        if (kind != InputKind::raw) throw usage::no_op_plot(path);
+        const raw::RawFile file = raw::read_raw(path, raw::Selection{{"op"}, true});
+        std::vector<std::size_t> ops;
+        for (std::size_t k = 0; k < file.plots.size(); ++k)
+            if (file.plots[k].kind() == "op" && file.plots[k].point_count > 0) ops.push_back(k);
+        if (ops.empty()) throw usage::no_op_plot(path);
+        for (std::size_t k = 0; k < ops.size(); ++k) runs.push_back({path, sweep::op_plot_label(path, k, ops.size()), ops[k]});
+    }
+    return runs;
+}
+
+class OpSweep {
+public:
+    OpSweep(const SweepOptions& o, const Circuit& circuit)
+        : o_(o), circuit_(circuit), recognition_(recognise_circuit(circuit)), settings_(review_settings(o.review)) {}
+
+    std::vector<sweep::RunRecord> review_all() {
+        const std::vector<OpRun> runs = op_runs(o_.ops);
+        auto ac = plots_per_run(o_.review.ac, runs.size());
+        auto tf = plots_per_run(o_.review.tf, runs.size());
+        std::vector<sweep::RunRecord> records;
+        std::string loaded_path;
+        raw::RawFile loaded;
+        for (std::size_t k = 0; k < runs.size(); ++k) {
+            const OpRun& run = runs[k];
+            std::vector<SimulationPlot> plots = std::move(ac[k]);
+            for (auto& p : tf[k]) plots.push_back(std::move(p));
+            try {
+                OpPoint op = op_of(run, loaded_path, loaded);
+                const std::string source = op.origin;
+                ReviewInputs inputs{o_.review.netlist, source, simulation_files(), {}};
+                const ReviewTree tree = run_review(circuit_, recognition_, std::move(op), std::move(plots), settings_, inputs);
+                records.push_back(sweep::record_from_review(tree, run.label, source));
+            } catch (const InputError& e) {
+                if (e.code().rfind("op.", 0) != 0) throw;
+                throw sweep::errors::run_does_not_fit(run.path, run.label, e.message());
+            }
+        }
+        return records;
+    }
+
+private:
+    const SweepOptions& o_;
+    const Circuit& circuit_;
+    const Recognition recognition_;
+    const ReviewSettings settings_;
+
+    std::vector<std::string> simulation_files() const {
+        std::vector<std::string> files = o_.review.ac;
+        files.insert(files.end(), o_.review.tf.begin(), o_.review.tf.end());
+        return files;
+    }
+
+    // The run's op; a raw file is read once for all its plots (`loaded` keeps the last).
+    OpPoint op_of(const OpRun& run, std::string& loaded_path, raw::RawFile& loaded) const {
+        if (detect_input_kind(run.path) == InputKind::listing)
+            return build_op_point(circuit_, listing::read_listing(run.path));
+        if (loaded_path != run.path) {
+            loaded = raw::read_raw(run.path, raw::Selection{{"op"}, false});
+            loaded_path = run.path;
+        }
+        return build_op_point(circuit_, loaded, loaded.plots[run.plot]);
+    }
+};
+
+int sweep_and_report(const SweepOptions& o) {
+    const std::optional<double> min_yield =
+        o.min_yield.empty() ? std::nullopt : std::optional<double>(min_yield_fraction(o.min_yield));
+    const Circuit circuit = read_circuit(o.review.netlist);
+    std::vector<sweep::RunRecord> records = OpSweep(o, circuit).review_all();
+    const sweep::SweepResult result = sweep::compute_sweep_statistics(std::move(records), min_yield);
+    const Terminal terminal = stdout_terminal();
+    report::write_sweep(report::parse_format(o.review.format).value_or(report::Format::table), result,
+                        {"sweep", o.review.netlist, o.ops}, std::cout,
+                        {terminal.width, terminal.colour, o.review.summary});
+    return result.summary.passed ? exit_passed : exit_findings;
+}
+
+}  // namespace
+
+void add_sweep_command(CLI::App& app, int& status) {
+    auto o = std::make_shared<SweepOptions>();
+    CLI::App* cmd = app.add_subcommand("sweep", "Review many operating points of one netlist: statistics and yield");
+    cmd->footer(
+        "Every op plot of every --op raw file is one run (ngspice writes one plot per `op`,\n"
+        "e.g. in a control loop with `alter` or `reset`); a `show` listing is one run. The\n"
+        "netlist is read and its mirrors recognised once; each run is reviewed as `review`\n"
+        "does. --ac and --tf plots are shared out over the runs by plot order (the same\n"
+        "number for every run). For each mirror output: mean, σ, min and max (with the run\n"
+        "that reached them) of the three output resistances, the current ratio and the\n"
+        "headroom margin, the runs that raised each finding, and the yield (the share of\n"
+        "runs whose review passed there); for each transistor its saturation margin and the\n"
+        "runs it spent in each region.\n\n"
+        "Exit status: 0 every run passed and the yield is at least --min-yield, 1 not, 2 bad\n"
+        "usage or input, 3 an internal error.\n\n"
+        "Examples:\n"
+        "  mirrorcheck sweep bias.cir --op corners.raw\n"
+        "  mirrorcheck sweep bias.cir --op tt.raw ss.raw ff.raw --format json > sweep.json\n"
+        "  mirrorcheck sweep bias.cir --op mc.raw --min-yield 99% --format junit > sweep.xml");
+    cmd->add_option("NETLIST", o->review.netlist, "ngspice netlist")->required()->check(CLI::ExistingFile);
+    cmd->add_option("--op", o->ops, "raw files whose op plots are the runs (or `show` listings, one run each)")
+        ->required()
+        ->check(CLI::ExistingFile);
+    cmd->add_option("--ac", o->review.ac, "raw files with AC plots probing the outputs, by plot order (repeatable)")
+        ->check(CLI::ExistingFile);
+    cmd->add_option("--tf", o->review.tf, "raw files with .tf plots naming the probes, by plot order (repeatable)")
+        ->check(CLI::ExistingFile);
+    cmd->add_option("--probe", o->review.probes, "NODE=SOURCE: the source that probes output NODE (repeatable)");
+    cmd->add_option("--min-yield", o->min_yield, "the share of runs that must pass, e.g. 95% (default: all of them)");
+    add_judgement_options(*cmd, o->review);
+    cmd->get_option("--format")->description("output format: table, json (schema mirrorcheck-sweep/1) or junit (XML)");
+    cmd->get_option("--summary")->description("table: print the verdict line only");
+    cmd->callback([o, &status] { status = sweep_and_report(*o); });
+}
+
+}  // namespace mirrorcheck::cli

@@ -1,0 +1,20 @@
+#include "src/sweep/run_labels.hpp"
+
+namespace mirrorcheck::sweep {
+namespace {
+
+std::string without(const std::string& path, const std::string& extension) {
+    if (path.size() > extension.size() && path.ends_with(extension)) return path.substr(0, path.size() - extension.size());
+    return path;
+}
+
+}  // namespace
+
+std::string op_plot_label(const std::string& path, std::size_t index, std::size_t count) {
+    const std::string stem = without(path, ".raw");
+    return count > 1 ? stem + "/op" + std::to_string(index + 1) : stem;
+}
+
+std::string report_label(const std::string& path) { return without(path, ".json"); }
+
+}  // namespace mirrorcheck::sweep

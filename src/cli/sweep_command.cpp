@@ -3,6 +3,7 @@
 #include <iostream>
 #include <memory>
 #include <optional>
+#include <thread>
 #include <string>
 #include <vector>
 
@@ -12,6 +13,7 @@
 #include "src/analyse/pipeline.hpp"
 #include "src/cli/exit_status.hpp"
 #include "src/cli/review_command.hpp"
+#include "src/cli/simulated_sweep.hpp"
 #include "src/cli/terminal.hpp"
 #include "src/cli/usage_errors.hpp"
 #include "src/model/circuit_build.hpp"
@@ -36,7 +38,69 @@ struct SweepOptions {
     ReviewOptions review;          // NETLIST and the judgement options
     std::vector<std::string> ops;  // raw files (or listings) with the runs' operating points
     std::string min_yield;
+    // Simulated for the user when no --op is given.
+    std::vector<std::string> corners, temps, supplies, params;
+    std::size_t monte_carlo = 0;
+    unsigned long seed = 1;
+    std::size_t jobs = 0;  // 0: the machine's cores
+    std::string keep, ngspice = "ngspice";
 };
+
+// "1.62", "1.62V".
+std::optional<double> volts(std::string text) {
+    if (!text.empty() && (text.back() == 'V' || text.back() == 'v')) text.pop_back();
+    try {
+        std::size_t used = 0;
+        const double v = std::stod(text, &used);
+        if (used == text.size()) return v;
+    } catch (const std::exception&) {
+    }
+    return std::nullopt;
+}
+
+sweep::SweepAxes sweep_axes(const SweepOptions& o) {
+    sweep::SweepAxes axes;
+    axes.corners = o.corners;
+    for (const auto& t : o.temps) {
+        std::string text = t;
+        if (!text.empty() && (text.back() == 'C' || text.back() == 'c')) text.pop_back();
+        const auto v = volts(text);  // the same plain number
+        if (!v || text.empty() || text.back() == 'V' || text.back() == 'v') throw usage::bad_temperature(t);
+        axes.temperatures.push_back(*v);
+    }
+    for (const auto& s : o.supplies) {
+        const auto eq = s.find('=');
+        if (eq == std::string::npos || eq == 0) throw usage::bad_supply(s);
+        std::vector<double> values;
+        std::size_t from = eq + 1;
+        while (from <= s.size()) {
+            std::size_t comma = s.find(',', from);
+            if (comma == std::string::npos) comma = s.size();
+            const auto v = volts(s.substr(from, comma - from));
+            if (!v) throw usage::bad_supply(s);
+            values.push_back(*v);
+            from = comma + 1;
+        }
+        axes.supplies.emplace_back(s.substr(0, eq), values);
+    }
+    for (const auto& p : o.params) {
+        const auto eq = p.find('=');
+        if (eq == std::string::npos || eq == 0 || eq + 1 == p.size()) throw usage::bad_param(p);
+        axes.params.emplace_back(p.substr(0, eq), p.substr(eq + 1));
+    }
+    axes.monte_carlo = o.monte_carlo;
+    axes.seed = o.seed;
+    return axes;
+}
+
+std::vector<sweep::RunRecord> simulated_records(const SweepOptions& o) {
+    SimulationRequest request;
+    request.axes = sweep_axes(o);
+    request.jobs = o.jobs > 0 ? o.jobs : std::max(1u, std::thread::hardware_concurrency());
+    request.keep = o.keep;
+    request.ngspice = o.ngspice;
+    return simulate_and_review(o.review, request);
+}
 
 // The AC or .tf plots of the given files, in order, shared out over `runs` by plot order:
 // run k gets the k-th group of equal size.
@@ -139,8 +203,13 @@ private:
 int sweep_and_report(const SweepOptions& o) {
     const std::optional<double> min_yield =
         o.min_yield.empty() ? std::nullopt : std::optional<double>(min_yield_fraction(o.min_yield));
-    const Circuit circuit = read_circuit(o.review.netlist);
-    std::vector<sweep::RunRecord> records = OpSweep(o, circuit).review_all();
+    std::vector<sweep::RunRecord> records;
+    if (o.ops.empty()) {
+        records = simulated_records(o);
+    } else {
+        const Circuit circuit = read_circuit(o.review.netlist);
+        records = OpSweep(o, circuit).review_all();
+    }
     const sweep::SweepResult result = sweep::compute_sweep_statistics(std::move(records), min_yield);
     const Terminal terminal = stdout_terminal();
     report::write_sweep(report::parse_format(o.review.format).value_or(report::Format::table), result,
@@ -164,16 +233,35 @@ void add_sweep_command(CLI::App& app, int& status) {
         "headroom margin, the runs that raised each finding, and the yield (the share of\n"
         "runs whose review passed there); for each transistor its saturation margin and the\n"
         "runs it spent in each region.\n\n"
+        "Without --op the runs are simulated: every combination of --corners, --temps and\n"
+        "--supply values, each --monte-carlo times with its own seed, in decks derived into a\n"
+        "work folder (the netlist's files are never written), ngspice run in the netlist's\n"
+        "folder; runs are labelled like ss/125C/vdd=1.62/mc17. A run that fails or does not\n"
+        "converge is reported as failed with the end of ngspice's log and counts against the\n"
+        "yield.\n\n"
         "Exit status: 0 every run passed and the yield is at least --min-yield, 1 not, 2 bad\n"
         "usage or input, 3 an internal error.\n\n"
         "Examples:\n"
         "  mirrorcheck sweep bias.cir --op corners.raw\n"
         "  mirrorcheck sweep bias.cir --op tt.raw ss.raw ff.raw --format json > sweep.json\n"
-        "  mirrorcheck sweep bias.cir --op mc.raw --min-yield 99% --format junit > sweep.xml");
+        "  mirrorcheck sweep bias.cir --op mc.raw --min-yield 99% --format junit > sweep.xml\n"
+        "  mirrorcheck sweep bias.cir --corners ff,ss --temps=-40,125 --supply vdd=1.62,1.98\n"
+        "  mirrorcheck sweep bias.cir --monte-carlo 200 --seed 7 --jobs 2 --keep mc_runs");
     cmd->add_option("NETLIST", o->review.netlist, "ngspice netlist")->required()->check(CLI::ExistingFile);
     cmd->add_option("--op", o->ops, "raw files whose op plots are the runs (or `show` listings, one run each)")
-        ->required()
         ->check(CLI::ExistingFile);
+    cmd->add_option("--corners", o->corners,
+                    "without --op: process corners, sections of the library on the deck's `.lib FILE SECTION` line "
+                    "(e.g. ff,ss)")
+        ->delimiter(',');
+    cmd->add_option("--temps", o->temps, "without --op: temperatures in °C, e.g. --temps=-40,27,125")->delimiter(',');
+    cmd->add_option("--supply", o->supplies, "without --op: SOURCE=V[,V...], the DC values of a voltage source (repeatable)");
+    cmd->add_option("--monte-carlo", o->monte_carlo, "without --op: draws of the deck's agauss/gauss values per combination");
+    cmd->add_option("--seed", o->seed, "the first Monte Carlo draw's seed (default 1; draw k uses seed + k - 1)");
+    cmd->add_option("--param", o->params, "NAME=VALUE: a .param for every run, e.g. a PDK's statistical switch (repeatable)");
+    cmd->add_option("--jobs", o->jobs, "ngspice processes at once (default: the machine's cores)");
+    cmd->add_option("--keep", o->keep, "keep every run's deck, ngspice log and results in this folder");
+    cmd->add_option("--ngspice", o->ngspice, "the ngspice executable (default: ngspice on PATH)");
     cmd->add_option("--ac", o->review.ac, "raw files with AC plots probing the outputs, by plot order (repeatable)")
         ->check(CLI::ExistingFile);
     cmd->add_option("--tf", o->review.tf, "raw files with .tf plots naming the probes, by plot order (repeatable)")

@@ -87,4 +87,18 @@ InputError min_yield_above_one(const std::string& text) {
             fmt::format("--min-yield {} is above 100 %: expected a share of the runs, e.g. 95%", text)};
 }
 
+InputError bad_supply(const std::string& text) {
+    return {"usage.supply", Location("--supply"),
+            fmt::format("`{}` is not SOURCE=V[,V...] (example: --supply vdd=1.62,1.8,1.98)", text)};
+}
+
+InputError bad_temperature(const std::string& text) {
+    return {"usage.temperature", Location("--temps"),
+            fmt::format("`{}` is not a temperature in °C (example: --temps=-40,27,125)", text)};
+}
+
+InputError bad_param(const std::string& text) {
+    return {"usage.param", Location("--param"), fmt::format("`{}` is not NAME=VALUE (example: --param mc_switch=1)", text)};
+}
+
 }  // namespace mirrorcheck::cli::usage

@@ -23,5 +23,9 @@ InputError copy_would_overwrite_input(const std::string& copy);
 InputError no_temporary_folder(const std::string& where);
 // --min-yield above 100 %.
 InputError min_yield_above_one(const std::string& text);
+// `sweep`: --supply not NAME=V,V...; a --temps value not a number of °C; --param not NAME=VALUE.
+InputError bad_supply(const std::string& text);
+InputError bad_temperature(const std::string& text);
+InputError bad_param(const std::string& text);
 
 }  // namespace mirrorcheck::cli::usage

@@ -1,0 +1,156 @@
+#include "src/cli/simulated_sweep.hpp"
+
+#include <atomic>
+#include <cstdlib>
+#include <filesystem>
+#include <iostream>
+#include <thread>
+
+#include <fmt/format.h>
+
+#include "parsers/netlist/netlist.hpp"
+#include "parsers/raw/raw.hpp"
+#include "src/analyse/pipeline.hpp"
+#include "src/cli/usage_errors.hpp"
+#include "src/deck/ngspice_runner.hpp"
+#include "src/deck/review_deck.hpp"
+#include "src/deck/run_variant.hpp"
+#include "src/model/circuit_build.hpp"
+#include "src/model/op_point_build.hpp"
+#include "src/model/simulation_plots_build.hpp"
+
+namespace mirrorcheck::cli {
+namespace {
+
+namespace fs = std::filesystem;
+
+fs::path work_folder(const std::string& keep) {
+    if (!keep.empty()) {
+        const fs::path folder = fs::absolute(keep).lexically_normal();
+        fs::create_directories(folder);
+        return folder;
+    }
+    std::string pattern = (fs::temp_directory_path() / "mirrorcheck-sweep-XXXXXX").string();
+    if (!mkdtemp(pattern.data())) throw usage::no_temporary_folder(fs::temp_directory_path().string());
+    return pattern;
+}
+
+// A run's deck, written into its own folder of the work folder.
+struct RunJob {
+    std::string label;
+    NgspiceCall call;
+    fs::path raw;
+    std::string failure;  // set when the simulation failed
+};
+
+class SimulatedSweep {
+public:
+    SimulatedSweep(const ReviewOptions& review, const SimulationRequest& request)
+        : review_(review), request_(request), netlist_(netlist::read_netlist(review.netlist)),
+          circuit_(build_circuit(netlist_)), folder_(work_folder(request.keep)) {}
+
+    ~SimulatedSweep() {
+        std::error_code ec;
+        if (request_.keep.empty()) fs::remove_all(folder_, ec);
+    }
+
+    std::vector<sweep::RunRecord> run() {
+        const auto planned = sweep::plan_runs(request_.axes);
+        const Recognition deck_recognition = recognise_circuit(circuit_);
+        std::vector<RunJob> jobs;
+        std::optional<std::size_t> corner_line;
+        Circuit probed = circuit_;
+        for (std::size_t k = 0; k < planned.size(); ++k) {
+            const fs::path dir = folder_ / fmt::format("run{}", k + 1);
+            fs::create_directories(dir);
+            DeckOptions options;
+            options.alone = false;
+            options.deck_path = dir / "review.cir";
+            options.raw_path = dir / "review.raw";
+            ReviewDeck deck = write_review_deck(netlist_, circuit_, deck_recognition.mirrors, options);
+            refuse_overwrite(deck);
+            if (k == 0) add_deck_probes(probed, deck);
+            if (!request_.axes.corners.empty() && !corner_line)
+                corner_line = find_corner_line(deck.text, request_.axes.corners, review_.netlist);
+            deck.text = write_run_variant(deck.text, planned[k].variant, corner_line.value_or(0));
+            save_review_deck(deck);
+            NgspiceCall call{request_.ngspice, deck.path, dir / "ngspice.log", deck.run_folder};
+            std::error_code ec;
+            fs::remove(options.raw_path, ec);  // a kept folder's results of an earlier sweep
+            jobs.push_back({planned[k].label, call, options.raw_path, {}});
+        }
+        simulate(jobs);
+        const Recognition recognition = recognise_circuit(probed);
+        const ReviewSettings settings = review_settings(review_);
+        std::vector<sweep::RunRecord> records;
+        for (const RunJob& job : jobs) records.push_back(review_run(job, probed, recognition, settings));
+        if (!request_.keep.empty())
+            std::cerr << fmt::format("kept every run's deck, ngspice log and results in {}\n", folder_.string());
+        return records;
+    }
+
+private:
+    const ReviewOptions& review_;
+    const SimulationRequest& request_;
+    const netlist::FlatNetlist netlist_;
+    const Circuit circuit_;
+    const fs::path folder_;
+
+    // Never write over a file the deck reads (a --keep folder that holds the user's deck).
+    void refuse_overwrite(const ReviewDeck& deck) const {
+        std::vector<fs::path> written{deck.path};
+        for (const auto& copy : deck.included) written.push_back(copy.path);
+        for (const auto& path : written)
+            for (const auto& f : netlist_.files)
+                if (fs::exists(path) && fs::equivalent(path, f.path))
+                    throw usage::would_overwrite_input(path.string(), f.path.string());
+    }
+
+    // Runs the jobs, request_.jobs at a time; a failure is kept with its job.
+    void simulate(std::vector<RunJob>& jobs) const {
+        std::atomic<std::size_t> next{0};
+        const auto worker = [&] {
+            for (std::size_t k; (k = next++) < jobs.size();) {
+                try {
+                    run_ngspice_batch(jobs[k].call);
+                    if (!fs::exists(jobs[k].raw)) throw ngspice_failure(jobs[k].call, "wrote no results");
+                } catch (const InputError& e) {
+                    jobs[k].failure = e.where().to_string() + ": " + e.message();
+                }
+            }
+        };
+        std::vector<std::thread> threads;
+        for (std::size_t t = 0; t < std::max<std::size_t>(1, std::min(request_.jobs, jobs.size())); ++t)
+            threads.emplace_back(worker);
+        for (auto& t : threads) t.join();
+    }
+
+    sweep::RunRecord review_run(const RunJob& job, const Circuit& circuit, const Recognition& recognition,
+                                const ReviewSettings& settings) const {
+        const std::string source = job.raw.string();
+        if (!job.failure.empty()) return sweep::failed_record(job.label, job.call.deck.string(), job.failure);
+        try {
+            const raw::RawFile file = raw::read_raw(job.raw, raw::Selection{{"op"}, false});
+            const raw::Plot* op_plot = nullptr;
+            for (const auto& plot : file.plots)
+                if (!op_plot && plot.kind() == "op" && plot.decoded && plot.point_count > 0) op_plot = &plot;
+            if (!op_plot) throw ngspice_failure(job.call, "wrote no operating point");
+            OpPoint op = build_op_point(circuit, file, *op_plot);
+            auto plots = simulation_plots_from_raw(raw::read_raw(job.raw, raw::Selection{{"ac", "tf"}, false}));
+            ReviewInputs inputs{review_.netlist, op.origin, {source}, {}};
+            const std::string origin = op.origin;
+            const ReviewTree tree = run_review(circuit, recognition, std::move(op), std::move(plots), settings, inputs);
+            return sweep::record_from_review(tree, job.label, origin);
+        } catch (const InputError& e) {
+            return sweep::failed_record(job.label, source, e.where().to_string() + ": " + e.message());
+        }
+    }
+};
+
+}  // namespace
+
+std::vector<sweep::RunRecord> simulate_and_review(const ReviewOptions& review, const SimulationRequest& request) {
+    return SimulatedSweep(review, request).run();
+}
+
+}  // namespace mirrorcheck::cli

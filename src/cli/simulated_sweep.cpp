@@ -3,6 +3,7 @@
 #include <atomic>
 #include <cstdlib>
 #include <filesystem>
+#include <fstream>
 #include <iostream>
 #include <thread>
 
@@ -106,8 +107,75 @@ private:
                     throw usage::would_overwrite_input(path.string(), f.path.string());
     }
 
-    // Runs the jobs, request_.jobs at a time; a failure is kept with its job.
     void simulate(std::vector<RunJob>& jobs) const {
+        if (request_.engine == "local") return simulate_locally(jobs);
+        hand_to_scheduler(jobs);
+    }
+
+    static fs::path status_file(const RunJob& job) { return job.raw.parent_path() / "ngspice.status"; }
+
+    // GNU parallel or a Slurm job array runs one line of jobs.txt per run; each line leaves
+    // ngspice's exit status beside its log, judged here as a local run's would be.
+    void hand_to_scheduler(std::vector<RunJob>& jobs) const {
+        const fs::path list = folder_ / "jobs.txt";
+        std::string lines;
+        for (const RunJob& job : jobs) {
+            std::error_code ec;
+            fs::remove(status_file(job), ec);
+            lines += "(" + ngspice_command(job.call) + "); echo $? > " + quoted(status_file(job).string()) + "\n";
+        }
+        write_file(list, lines);
+        std::string options;
+        for (const auto& o : request_.engine_options) options += " " + quoted(o);
+        std::string command;
+        if (request_.engine == "parallel") {
+            command = fmt::format("parallel --will-cite --jobs {}{} < {} > {} 2>&1", request_.jobs, options,
+                                  quoted(list.string()), quoted((folder_ / "parallel.log").string()));
+        } else {
+            const fs::path script = folder_ / "sweep.sbatch";
+            write_file(script, "#!/bin/sh\n#SBATCH --job-name=mirrorcheck-sweep\n#SBATCH --output=" +
+                                   (folder_ / "slurm-%a.out").string() + "\nsh -c \"$(sed -n \"${SLURM_ARRAY_TASK_ID}p\" " +
+                                   quoted(list.string()) + ")\"\n");
+            command = fmt::format("sbatch --wait --array=1-{}{} {} > {} 2>&1", jobs.size(), options,
+                                  quoted(script.string()), quoted((folder_ / "sbatch.log").string()));
+        }
+        const int raw = std::system(command.c_str());
+        const int status = raw == -1 ? -1 : WIFEXITED(raw) ? WEXITSTATUS(raw) : 128 + WTERMSIG(raw);
+        if (status == 127 || status == 126 || (request_.engine == "slurm" && status != 0 && !any_status(jobs)))
+            throw usage::engine_failed(request_.engine, command, status);
+        for (RunJob& job : jobs) {
+            try {
+                std::ifstream in(status_file(job));
+                int exit_status = -1;
+                if (!(in >> exit_status)) throw ngspice_failure(job.call, "was not run by " + request_.engine);
+                check_ngspice_run(job.call, exit_status);
+                if (!fs::exists(job.raw)) throw ngspice_failure(job.call, "wrote no results");
+            } catch (const InputError& e) {
+                job.failure = e.where().to_string() + ": " + e.message();
+            }
+        }
+    }
+
+    static bool any_status(const std::vector<RunJob>& jobs) {
+        for (const RunJob& job : jobs)
+            if (fs::exists(status_file(job))) return true;
+        return false;
+    }
+
+    static std::string quoted(const std::string& s) {
+        std::string q = "'";
+        for (char c : s) q += c == '\'' ? std::string("'\\''") : std::string(1, c);
+        return q + "'";
+    }
+
+    static void write_file(const fs::path& path, const std::string& text) {
+        std::ofstream out(path, std::ios::binary);
+        out << text;
+        if (!out) throw usage::no_temporary_folder(path.string());
+    }
+
+    // Runs the jobs, request_.jobs at a time; a failure is kept with its job.
+    void simulate_locally(std::vector<RunJob>& jobs) const {
         std::atomic<std::size_t> next{0};
         const auto worker = [&] {
             for (std::size_t k; (k = next++) < jobs.size();) {

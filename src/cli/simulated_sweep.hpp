@@ -17,6 +17,8 @@ struct SimulationRequest {
     std::size_t jobs = 1;         // ngspice processes at once
     std::string keep;             // work folder to keep; empty: a temporary one, removed
     std::string ngspice = "ngspice";
+    std::string engine = "local";             // local, parallel (GNU parallel) or slurm (sbatch --array)
+    std::vector<std::string> engine_options;  // words passed to parallel or sbatch, e.g. --sshlogin=host
 };
 
 // One record per planned run, in plan order; a run whose simulation failed is a failed

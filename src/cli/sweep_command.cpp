@@ -44,6 +44,8 @@ struct SweepOptions {
     unsigned long seed = 1;
     std::size_t jobs = 0;  // 0: the machine's cores
     std::string keep, ngspice = "ngspice";
+    std::string engine = "local";
+    std::vector<std::string> engine_options;
 };
 
 // "1.62", "1.62V".
@@ -99,6 +101,8 @@ std::vector<sweep::RunRecord> simulated_records(const SweepOptions& o) {
     request.jobs = o.jobs > 0 ? o.jobs : std::max(1u, std::thread::hardware_concurrency());
     request.keep = o.keep;
     request.ngspice = o.ngspice;
+    request.engine = o.engine;
+    request.engine_options = o.engine_options;
     return simulate_and_review(o.review, request);
 }
 
@@ -262,6 +266,14 @@ void add_sweep_command(CLI::App& app, int& status) {
     cmd->add_option("--jobs", o->jobs, "ngspice processes at once (default: the machine's cores)");
     cmd->add_option("--keep", o->keep, "keep every run's deck, ngspice log and results in this folder");
     cmd->add_option("--ngspice", o->ngspice, "the ngspice executable (default: ngspice on PATH)");
+    cmd->add_option("--engine", o->engine,
+                    "where the runs execute: local (default, --jobs processes), parallel (GNU parallel, --jobs at "
+                    "once per host) or slurm (a job array, sbatch --array --wait; give --keep a folder every node "
+                    "sees)")
+        ->check(CLI::IsMember({"local", "parallel", "slurm"}));
+    cmd->add_option("--engine-option", o->engine_options,
+                    "a word passed to parallel or sbatch as it is, e.g. --engine-option=--sshlogin=2/host1 "
+                    "or --engine-option=--partition=short (repeatable)");
     cmd->add_option("--ac", o->review.ac, "raw files with AC plots probing the outputs, by plot order (repeatable)")
         ->check(CLI::ExistingFile);
     cmd->add_option("--tf", o->review.tf, "raw files with .tf plots naming the probes, by plot order (repeatable)")

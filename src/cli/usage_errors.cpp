@@ -101,4 +101,11 @@ InputError bad_param(const std::string& text) {
     return {"usage.param", Location("--param"), fmt::format("`{}` is not NAME=VALUE (example: --param mc_switch=1)", text)};
 }
 
+InputError engine_failed(const std::string& engine, const std::string& command, int status) {
+    return {"usage.engine", Location("--engine"),
+            fmt::format("`{}` ended with status {}{}: expected {} to run the sweep's jobs", command, status,
+                        status == 127 ? " (not installed?)" : "",
+                        engine == "slurm" ? "Slurm's sbatch" : "GNU parallel")};
+}
+
 }  // namespace mirrorcheck::cli::usage

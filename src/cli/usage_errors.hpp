@@ -27,5 +27,7 @@ InputError min_yield_above_one(const std::string& text);
 InputError bad_supply(const std::string& text);
 InputError bad_temperature(const std::string& text);
 InputError bad_param(const std::string& text);
+// `sweep --engine`: GNU parallel or sbatch could not be started, or gave up.
+InputError engine_failed(const std::string& engine, const std::string& command, int status);
 
 }  // namespace mirrorcheck::cli::usage

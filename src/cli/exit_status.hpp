@@ -12,6 +12,7 @@ inline constexpr int exit_passed = 0;          // no unwaived finding at the fai
 inline constexpr int exit_findings = 1;        // some
 inline constexpr int exit_bad_input = 2;       // bad usage or unreadable input (an InputError)
 inline constexpr int exit_internal_error = 3;  // anything else: a bug to report
+inline constexpr int exit_interrupted = 130;   // Ctrl-C stopped a sweep (128 + SIGINT, as shells report it)
 
 // Runs `command` (which returns an exit status) and turns an InputError into its message and
 // status 2, any other exception into an internal-error message and status 3.

@@ -1,11 +1,16 @@
 #include "src/cli/simulated_sweep.hpp"
 
 #include <atomic>
+#include <cerrno>
+#include <csignal>
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
 #include <iostream>
 #include <thread>
+
+#include <spawn.h>
+#include <sys/wait.h>
 
 #include <fmt/format.h>
 
@@ -19,6 +24,8 @@
 #include "src/model/circuit_build.hpp"
 #include "src/model/op_point_build.hpp"
 #include "src/model/simulation_plots_build.hpp"
+#include "src/report/review_report.hpp"
+#include "src/sweep/run_labels.hpp"
 
 namespace mirrorcheck::cli {
 namespace {
@@ -42,7 +49,38 @@ struct RunJob {
     NgspiceCall call;
     fs::path raw;
     std::string failure;  // set when the simulation failed
+    bool not_run = false; // the sweep was interrupted first
 };
+
+// Set by Ctrl-C (SIGINT) during a local sweep: no further run starts.
+volatile std::sig_atomic_t interrupted = 0;
+extern "C" void note_interrupt(int) { interrupted = 1; }
+
+// Catches SIGINT while it lives, then puts back what was there.
+struct InterruptGuard {
+    struct sigaction previous {};
+    InterruptGuard() {
+        interrupted = 0;
+        struct sigaction a {};
+        a.sa_handler = note_interrupt;
+        sigemptyset(&a.sa_mask);
+        sigaction(SIGINT, &a, &previous);
+    }
+    ~InterruptGuard() { sigaction(SIGINT, &previous, nullptr); }
+};
+
+// Runs `command` with /bin/sh and returns its exit status (128 + signal when killed).
+// Unlike std::system, the caller keeps its SIGINT handler meanwhile, so that Ctrl-C stops
+// the sweep between runs.
+int run_shell(const std::string& command) {
+    const char* argv[] = {"sh", "-c", command.c_str(), nullptr};
+    pid_t pid = 0;
+    if (posix_spawn(&pid, "/bin/sh", nullptr, nullptr, const_cast<char* const*>(argv), environ) != 0) return 127;
+    int raw = 0;
+    while (waitpid(pid, &raw, 0) < 0)
+        if (errno != EINTR) return -1;
+    return WIFEXITED(raw) ? WEXITSTATUS(raw) : 128 + WTERMSIG(raw);
+}
 
 class SimulatedSweep {
 public:
@@ -52,7 +90,7 @@ public:
 
     ~SimulatedSweep() {
         std::error_code ec;
-        if (request_.keep.empty()) fs::remove_all(folder_, ec);
+        if (request_.keep.empty() && !keep_folder_) fs::remove_all(folder_, ec);
     }
 
     std::vector<sweep::RunRecord> run() {
@@ -80,11 +118,25 @@ public:
             fs::remove(options.raw_path, ec);  // a kept folder's results of an earlier sweep
             jobs.push_back({planned[k].label, call, options.raw_path, {}});
         }
+        const InterruptGuard guard;
         simulate(jobs);
+        const bool stopped = interrupted != 0;
         const Recognition recognition = recognise_circuit(probed);
         const ReviewSettings settings = review_settings(review_);
         std::vector<sweep::RunRecord> records;
-        for (const RunJob& job : jobs) records.push_back(review_run(job, probed, recognition, settings));
+        std::size_t finished = 0;
+        for (const RunJob& job : jobs) {
+            if (job.not_run) continue;
+            records.push_back(review_run(job, probed, recognition, settings, stopped || !request_.keep.empty()));
+            ++finished;
+        }
+        if (stopped) {
+            keep_folder_ = true;
+            throw SweepInterrupted{fmt::format(
+                "interrupted: {} of {} runs finished; their reports are in {}\n"
+                "their statistics: cd {} && mirrorcheck merge $(find * -name '*.json')\n",
+                finished, jobs.size(), (folder_ / "reports").string(), quoted((folder_ / "reports").string()))};
+        }
         if (!request_.keep.empty())
             std::cerr << fmt::format("kept every run's deck, ngspice log and results in {}\n", folder_.string());
         return records;
@@ -96,6 +148,7 @@ private:
     const netlist::FlatNetlist netlist_;
     const Circuit circuit_;
     const fs::path folder_;
+    bool keep_folder_ = false;  // an interrupted sweep leaves its finished runs' reports
 
     // Never write over a file the deck reads (a --keep folder that holds the user's deck).
     void refuse_overwrite(const ReviewDeck& deck) const {
@@ -179,11 +232,16 @@ private:
         std::atomic<std::size_t> next{0};
         const auto worker = [&] {
             for (std::size_t k; (k = next++) < jobs.size();) {
+                if (interrupted) {
+                    jobs[k].not_run = true;
+                    continue;
+                }
                 try {
-                    run_ngspice_batch(jobs[k].call);
+                    check_ngspice_run(jobs[k].call, run_shell(ngspice_command(jobs[k].call)));
                     if (!fs::exists(jobs[k].raw)) throw ngspice_failure(jobs[k].call, "wrote no results");
                 } catch (const InputError& e) {
                     jobs[k].failure = e.where().to_string() + ": " + e.message();
+                    if (interrupted) jobs[k].not_run = true;  // Ctrl-C reached ngspice too
                 }
             }
         };
@@ -193,8 +251,9 @@ private:
         for (auto& t : threads) t.join();
     }
 
+    // The run's review; with `save`, also its JSON report as reports/LABEL.json.
     sweep::RunRecord review_run(const RunJob& job, const Circuit& circuit, const Recognition& recognition,
-                                const ReviewSettings& settings) const {
+                                const ReviewSettings& settings, bool save) const {
         const std::string source = job.raw.string();
         if (!job.failure.empty()) return sweep::failed_record(job.label, job.call.deck.string(), job.failure);
         try {
@@ -208,6 +267,12 @@ private:
             ReviewInputs inputs{review_.netlist, op.origin, {source}, {}};
             const std::string origin = op.origin;
             const ReviewTree tree = run_review(circuit, recognition, std::move(op), std::move(plots), settings, inputs);
+            if (save) {
+                const fs::path report = folder_ / "reports" / (job.label + ".json");
+                fs::create_directories(report.parent_path());
+                std::ofstream out(report, std::ios::binary);
+                report::write_review_json(tree, out);
+            }
             return sweep::record_from_review(tree, job.label, origin);
         } catch (const InputError& e) {
             return sweep::failed_record(job.label, source, e.where().to_string() + ": " + e.message());

@@ -21,6 +21,12 @@ struct SimulationRequest {
     std::vector<std::string> engine_options;  // words passed to parallel or sbatch, e.g. --sshlogin=host
 };
 
+// Thrown when Ctrl-C stopped the sweep: what to tell the user (where the finished runs'
+// reports are, how to merge them).
+struct SweepInterrupted {
+    std::string message;
+};
+
 // One record per planned run, in plan order; a run whose simulation failed is a failed
 // record with the end of ngspice's log.
 std::vector<sweep::RunRecord> simulate_and_review(const ReviewOptions& review, const SimulationRequest& request);

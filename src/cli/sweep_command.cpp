@@ -209,7 +209,12 @@ int sweep_and_report(const SweepOptions& o) {
         o.min_yield.empty() ? std::nullopt : std::optional<double>(min_yield_fraction(o.min_yield));
     std::vector<sweep::RunRecord> records;
     if (o.ops.empty()) {
-        records = simulated_records(o);
+        try {
+            records = simulated_records(o);
+        } catch (const SweepInterrupted& stop) {
+            std::cerr << stop.message;
+            return exit_interrupted;
+        }
     } else {
         const Circuit circuit = read_circuit(o.review.netlist);
         records = OpSweep(o, circuit).review_all();

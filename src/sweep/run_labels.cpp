@@ -15,6 +15,9 @@ std::string op_plot_label(const std::string& path, std::size_t index, std::size_
     return count > 1 ? stem + "/op" + std::to_string(index + 1) : stem;
 }
 
-std::string report_label(const std::string& path) { return without(path, ".json"); }
+std::string report_label(const std::string& path) {
+    const std::string label = without(path, ".json");
+    return label.rfind("./", 0) == 0 ? label.substr(2) : label;
+}
 
 }  // namespace mirrorcheck::sweep

@@ -1,6 +1,8 @@
 #include "src/cli/simulated_sweep.hpp"
 
 #include <atomic>
+#include <chrono>
+#include <mutex>
 #include <cerrno>
 #include <csignal>
 #include <cstdlib>
@@ -11,6 +13,7 @@
 
 #include <spawn.h>
 #include <sys/wait.h>
+#include <unistd.h>
 
 #include <fmt/format.h>
 
@@ -67,6 +70,29 @@ struct InterruptGuard {
         sigaction(SIGINT, &a, &previous);
     }
     ~InterruptGuard() { sigaction(SIGINT, &previous, nullptr); }
+};
+
+// A progress line on standard error, only when it is a terminal and once the runs have
+// taken more than a second: "sweep: 17 of 200 runs simulated".
+class Progress {
+public:
+    explicit Progress(std::size_t total) : total_(total), shown_(isatty(STDERR_FILENO) != 0) {}
+    ~Progress() {
+        if (printed_) std::cerr << "\n";
+    }
+    void done_one() {
+        const std::lock_guard<std::mutex> lock(mutex_);
+        ++done_;
+        if (!shown_ || std::chrono::steady_clock::now() - start_ < std::chrono::seconds(1)) return;
+        std::cerr << fmt::format("\rsweep: {} of {} runs simulated", done_, total_) << std::flush;
+        printed_ = true;
+    }
+
+private:
+    std::size_t total_, done_ = 0;
+    bool shown_, printed_ = false;
+    std::mutex mutex_;
+    std::chrono::steady_clock::time_point start_ = std::chrono::steady_clock::now();
 };
 
 // Runs `command` with /bin/sh and returns its exit status (128 + signal when killed).
@@ -230,6 +256,7 @@ private:
     // Runs the jobs, request_.jobs at a time; a failure is kept with its job.
     void simulate_locally(std::vector<RunJob>& jobs) const {
         std::atomic<std::size_t> next{0};
+        Progress progress(jobs.size());
         const auto worker = [&] {
             for (std::size_t k; (k = next++) < jobs.size();) {
                 if (interrupted) {
@@ -243,6 +270,7 @@ private:
                     jobs[k].failure = e.where().to_string() + ": " + e.message();
                     if (interrupted) jobs[k].not_run = true;  // Ctrl-C reached ngspice too
                 }
+                progress.done_one();
             }
         };
         std::vector<std::thread> threads;

@@ -1,6 +1,8 @@
 #include "src/cli/sweep_command.hpp"
 
+#include <algorithm>
 #include <iostream>
+#include <map>
 #include <memory>
 #include <optional>
 #include <thread>
@@ -106,15 +108,40 @@ std::vector<sweep::RunRecord> simulated_records(const SweepOptions& o) {
     return simulate_and_review(o.review, request);
 }
 
+// The raw files of a sweep, each read once with every kind of plot the sweep takes from it
+// (op plots of --op files, AC and .tf plots of --ac and --tf files), however many times it
+// is named: one pass over the headers of a file of a thousand runs, not three.
+class RawFiles {
+public:
+    explicit RawFiles(const SweepOptions& o) : o_(o) {}
+
+    const raw::RawFile& get(const std::string& path) {
+        auto it = files_.find(path);
+        if (it != files_.end()) return it->second;
+        const auto named = [&](const std::vector<std::string>& list) {
+            return std::find(list.begin(), list.end(), path) != list.end();
+        };
+        raw::Selection selection;
+        if (named(o_.ops)) selection.plots.push_back("op");
+        if (named(o_.review.ac) || named(o_.review.tf)) selection.plots.insert(selection.plots.end(), {"ac", "tf"});
+        return files_.emplace(path, raw::read_raw(path, selection)).first->second;
+    }
+
+private:
+    const SweepOptions& o_;
+    std::map<std::string, raw::RawFile> files_;
+};
+
 // The AC or .tf plots of the given files, in order, shared out over `runs` by plot order:
 // run k gets the k-th group of equal size.
-std::vector<std::vector<SimulationPlot>> plots_per_run(const std::vector<std::string>& files, std::size_t runs) {
+std::vector<std::vector<SimulationPlot>> plots_per_run(const std::vector<std::string>& files, std::size_t runs,
+                                                       RawFiles& raws) {
     std::vector<std::vector<SimulationPlot>> per_run(runs);
     if (files.empty()) return per_run;
     std::vector<SimulationPlot> plots;
     for (const auto& path : files) {
         if (detect_input_kind(path) != InputKind::raw) throw usage::no_small_signal_plot(path);
-        auto more = simulation_plots_from_raw(raw::read_raw(path, raw::Selection{{"ac", "tf"}, false}));
+        auto more = simulation_plots_from_raw(raws.get(path));
         if (more.empty()) throw usage::no_small_signal_plot(path);
         for (auto& p : more) plots.push_back(std::move(p));
     }
@@ -131,7 +158,7 @@ struct OpRun {
 };
 
 // The runs of every --op file: each op plot of a raw file, or a listing as one run.
-std::vector<OpRun> op_runs(const std::vector<std::string>& files) {
+std::vector<OpRun> op_runs(const std::vector<std::string>& files, RawFiles& raws) {
     std::vector<OpRun> runs;
     for (const auto& path : files) {
         const InputKind kind = detect_input_kind(path);
@@ -140,10 +167,10 @@ std::vector<OpRun> op_runs(const std::vector<std::string>& files) {
             continue;
         }
         if (kind != InputKind::raw) throw usage::no_op_plot(path);
-        const raw::RawFile file = raw::read_raw(path, raw::Selection{{"op"}, true});
+        const raw::RawFile& file = raws.get(path);
         std::vector<std::size_t> ops;
         for (std::size_t k = 0; k < file.plots.size(); ++k)
-            if (file.plots[k].kind() == "op" && file.plots[k].point_count > 0) ops.push_back(k);
+            if (file.plots[k].kind() == "op" && file.plots[k].decoded && file.plots[k].point_count > 0) ops.push_back(k);
         if (ops.empty()) throw usage::no_op_plot(path);
         for (std::size_t k = 0; k < ops.size(); ++k) runs.push_back({path, sweep::op_plot_label(path, k, ops.size()), ops[k]});
     }
@@ -156,18 +183,17 @@ public:
         : o_(o), circuit_(circuit), recognition_(recognise_circuit(circuit)), settings_(review_settings(o.review)) {}
 
     std::vector<sweep::RunRecord> review_all() {
-        const std::vector<OpRun> runs = op_runs(o_.ops);
-        auto ac = plots_per_run(o_.review.ac, runs.size());
-        auto tf = plots_per_run(o_.review.tf, runs.size());
+        RawFiles raws(o_);
+        const std::vector<OpRun> runs = op_runs(o_.ops, raws);
+        auto ac = plots_per_run(o_.review.ac, runs.size(), raws);
+        auto tf = plots_per_run(o_.review.tf, runs.size(), raws);
         std::vector<sweep::RunRecord> records;
-        std::string loaded_path;
-        raw::RawFile loaded;
         for (std::size_t k = 0; k < runs.size(); ++k) {
             const OpRun& run = runs[k];
             std::vector<SimulationPlot> plots = std::move(ac[k]);
             for (auto& p : tf[k]) plots.push_back(std::move(p));
             try {
-                OpPoint op = op_of(run, loaded_path, loaded);
+                OpPoint op = op_of(run, raws);
                 const std::string source = op.origin;
                 ReviewInputs inputs{o_.review.netlist, source, simulation_files(), {}};
                 const ReviewTree tree = run_review(circuit_, recognition_, std::move(op), std::move(plots), settings_, inputs);
@@ -192,15 +218,11 @@ private:
         return files;
     }
 
-    // The run's op; a raw file is read once for all its plots (`loaded` keeps the last).
-    OpPoint op_of(const OpRun& run, std::string& loaded_path, raw::RawFile& loaded) const {
+    OpPoint op_of(const OpRun& run, RawFiles& raws) const {
         if (detect_input_kind(run.path) == InputKind::listing)
             return build_op_point(circuit_, listing::read_listing(run.path));
-        if (loaded_path != run.path) {
-            loaded = raw::read_raw(run.path, raw::Selection{{"op"}, false});
-            loaded_path = run.path;
-        }
-        return build_op_point(circuit_, loaded, loaded.plots[run.plot]);
+        const raw::RawFile& file = raws.get(run.path);
+        return build_op_point(circuit_, file, file.plots[run.plot]);
     }
 };
 

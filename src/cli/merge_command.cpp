@@ -50,7 +50,8 @@ void add_merge_command(CLI::App& app, int& status) {
     CLI::App* cmd = app.add_subcommand("merge", "Statistics and yield from per-run `review --format json` reports");
     cmd->footer(
         "Each report is one run, labelled by its path without .json. The statistics, yield\n"
-        "and exit status are those `sweep` gives for the same runs.\n\n"
+        "and exit status are those `sweep` gives for the same runs (0 the yield is at least\n"
+        "--min-yield, or every run passed without it; 1 not; 2 bad usage or input).\n\n"
         "Examples:\n"
         "  mirrorcheck merge runs/*.json\n"
         "  mirrorcheck merge runs/*.json --min-yield 99% --format junit > sweep.xml");

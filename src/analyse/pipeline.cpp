@@ -85,17 +85,29 @@ ReviewThresholds thresholds_of(const ReviewSettings& s) {
 
 }  // namespace
 
+Recognition recognise_circuit(const Circuit& circuit) {
+    Recognition r;
+    r.mirrors = find_mirrors(circuit);
+    r.names = find_designer_names(circuit, r.mirrors);
+    return r;
+}
+
 ReviewTree run_review(const Circuit& circuit, OpPoint op, std::vector<SimulationPlot> plots,
                       const ReviewSettings& settings, const ReviewInputs& inputs) {
+    return run_review(circuit, recognise_circuit(circuit), std::move(op), std::move(plots), settings, inputs);
+}
+
+ReviewTree run_review(const Circuit& circuit, const Recognition& recognition, OpPoint op,
+                      std::vector<SimulationPlot> plots, const ReviewSettings& settings, const ReviewInputs& inputs) {
     // The runs of the mirrors alone are read by their own pass; every other pass reads the circuit's.
     std::vector<SimulationPlot> alone_plots;
     auto alone = std::stable_partition(plots.begin(), plots.end(), [](const SimulationPlot& p) { return !is_alone_plot(p); });
     std::move(alone, plots.end(), std::back_inserter(alone_plots));
     plots.erase(alone, plots.end());
     const std::vector<std::string> no_gmb = assume_missing_gmb_zero(op);
-    const std::vector<Mirror> mirrors = find_mirrors(circuit);
+    const std::vector<Mirror>& mirrors = recognition.mirrors;
     require_transistor_quantities(op, circuit, mirror_transistor_names(circuit, mirrors));
-    const DesignerNames names = find_designer_names(circuit, mirrors);
+    const DesignerNames& names = recognition.names;
     const InspectionResult inspection = inspect_mirrors(circuit, op, mirrors, settings.inspect, names);
     const std::vector<OwnResistance> own = compute_own_resistances(circuit, op, mirrors);
     const LinearisedSolve linearised =

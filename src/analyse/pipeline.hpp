@@ -8,12 +8,14 @@
 #include <vector>
 
 #include "parsers/waivers/waivers.hpp"
+#include "src/analyse/designer_names.hpp"
 #include "src/analyse/inspect.hpp"
 #include "src/analyse/review_tree.hpp"
 #include "src/analyse/simulated_impedance.hpp"
 #include "src/model/circuit.hpp"
 #include "src/model/op_point.hpp"
 #include "src/model/simulation_plots.hpp"
+#include "src/recognise/find_mirrors.hpp"
 
 namespace mirrorcheck {
 
@@ -39,6 +41,20 @@ struct ReviewSettings {
 // circuit's op data and AC plots are not held twice).
 ReviewTree run_review(const Circuit& circuit, OpPoint op, std::vector<SimulationPlot> plots,
                       const ReviewSettings& settings, const ReviewInputs& inputs = {});
+
+// The mirrors of a circuit and the designer's names of their devices: what every review of
+// the circuit starts from, found once when many operating points are reviewed (`sweep`).
+struct Recognition {
+    std::vector<Mirror> mirrors;
+    DesignerNames names;
+};
+Recognition recognise_circuit(const Circuit& circuit);
+
+// The same review from a recognition made once: run_review(circuit, op, ...) is this with
+// recognise_circuit(circuit).
+ReviewTree run_review(const Circuit& circuit, const Recognition& recognition, OpPoint op,
+                      std::vector<SimulationPlot> plots, const ReviewSettings& settings,
+                      const ReviewInputs& inputs = {});
 
 // The same without simulation results.
 ReviewTree run_review(const Circuit& circuit, const OpPoint& op, const InspectOptions& options);

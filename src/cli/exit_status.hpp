@@ -14,18 +14,20 @@ inline constexpr int exit_passed = 0;          // no unwaived finding at the fai
 inline constexpr int exit_findings = 1;        // some
 inline constexpr int exit_bad_input = 2;       // bad usage or unreadable input (an InputError)
 inline constexpr int exit_internal_error = 3;  // anything else: a bug to report
+inline constexpr int exit_interrupted = 130;   // Ctrl-C stopped a sweep (128 + SIGINT, as shells report it)
 
 // What each status means, for --help and the man page.
 struct ExitStatusMeaning {
     int status;
     std::string_view meaning;
 };
-inline constexpr std::array<ExitStatusMeaning, 4> exit_status_meanings{{
+inline constexpr std::array<ExitStatusMeaning, 5> exit_status_meanings{{
     {exit_passed, "no unwaived finding at the failing severity (--fail-on, default error)"},
     {exit_findings, "some unwaived finding at the failing severity"},
     {exit_bad_input, "bad usage or unreadable input; the message names the file, the line or byte offset, and what "
                      "was expected"},
     {exit_internal_error, "an internal error (please report it with the input files)"},
+    {exit_interrupted, "interrupted (Ctrl-C); a sweep says which reports it kept and how to merge them"},
 }};
 
 // Runs `command` (which returns an exit status) and turns an InputError into its message and

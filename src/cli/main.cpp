@@ -10,9 +10,11 @@
 #include "src/cli/describe_command.hpp"
 #include "src/cli/exit_status.hpp"
 #include "src/cli/list_command.hpp"
+#include "src/cli/merge_command.hpp"
 #include "src/cli/peek_command.hpp"
 #include "src/cli/prepare_command.hpp"
 #include "src/cli/review_command.hpp"
+#include "src/cli/sweep_command.hpp"
 
 int main(int argc, char** argv) {
     using namespace mirrorcheck::cli;
@@ -31,6 +33,8 @@ int main(int argc, char** argv) {
     add_review_command(app, status);
     add_prepare_command(app, status);
     add_run_command(app, status);
+    add_sweep_command(app, status);
+    add_merge_command(app, status);
     add_describe_command(app, status);  // hidden: the man page and completion, from everything above
     return run_guarded(
         [&] {

@@ -58,6 +58,8 @@ void add_min_impedance(ReviewSettings& settings, const std::string& text) {
     settings.min_impedance_by_node.emplace_back(text.substr(0, eq), ohms("--min-impedance", text.substr(eq + 1)));
 }
 
+}  // namespace
+
 ReviewSettings review_settings(const ReviewOptions& o) {
     ReviewSettings settings;
     settings.inspect = inspect_options(o);
@@ -77,6 +79,8 @@ ReviewSettings review_settings(const ReviewOptions& o) {
     }
     return settings;
 }
+
+namespace {
 
 // What the report calls the --op file: its path, or the name `run` gives the results it
 // deletes before the reader could look (a report must not name a file that is gone).

@@ -7,6 +7,7 @@
 #include <CLI/CLI.hpp>
 
 #include "parsers/netlist/netlist.hpp"
+#include "src/analyse/pipeline.hpp"
 #include "src/model/circuit.hpp"
 
 namespace mirrorcheck::cli {
@@ -39,6 +40,9 @@ int review_and_report(const ReviewOptions& options);
 // deck added); `left_out` lists the cards the simulated deck left out ("file:line: card").
 int review_circuit_and_report(const ReviewOptions& options, const Circuit& circuit,
                               const std::vector<std::string>& left_out);
+
+// The review settings the options ask for (reads the waiver files); shared with `sweep`.
+ReviewSettings review_settings(const ReviewOptions& options);
 
 // The options that judge the circuit and shape the report, shared with `run`.
 void add_judgement_options(CLI::App& cmd, ReviewOptions& options);

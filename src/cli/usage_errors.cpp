@@ -86,4 +86,30 @@ InputError cannot_write(const std::string& path) {
     return {"usage.cannot-write", Location(path), "cannot write this file"};
 }
 
+InputError min_yield_above_one(const std::string& text) {
+    return {"usage.min-yield", Location("--min-yield"),
+            fmt::format("--min-yield {} is above 100 %: expected a share of the runs, e.g. 95%", text)};
+}
+
+InputError bad_supply(const std::string& text) {
+    return {"usage.supply", Location("--supply"),
+            fmt::format("`{}` is not SOURCE=V[,V...] (example: --supply vdd=1.62,1.8,1.98)", text)};
+}
+
+InputError bad_temperature(const std::string& text) {
+    return {"usage.temperature", Location("--temps"),
+            fmt::format("`{}` is not a temperature in °C (example: --temps=-40,27,125)", text)};
+}
+
+InputError bad_param(const std::string& text) {
+    return {"usage.param", Location("--param"), fmt::format("`{}` is not NAME=VALUE (example: --param mc_switch=1)", text)};
+}
+
+InputError engine_failed(const std::string& engine, const std::string& command, int status) {
+    return {"usage.engine", Location("--engine"),
+            fmt::format("`{}` ended with status {}{}: expected {} to run the sweep's jobs", command, status,
+                        status == 127 ? " (not installed?)" : "",
+                        engine == "slurm" ? "Slurm's sbatch" : "GNU parallel")};
+}
+
 }  // namespace mirrorcheck::cli::usage

@@ -22,5 +22,13 @@ InputError would_overwrite_input(const std::string& output, const std::string& i
 InputError copy_would_overwrite_input(const std::string& copy);
 InputError no_temporary_folder(const std::string& where);
 InputError cannot_write(const std::string& path);
+// --min-yield above 100 %.
+InputError min_yield_above_one(const std::string& text);
+// `sweep`: --supply not NAME=V,V...; a --temps value not a number of °C; --param not NAME=VALUE.
+InputError bad_supply(const std::string& text);
+InputError bad_temperature(const std::string& text);
+InputError bad_param(const std::string& text);
+// `sweep --engine`: GNU parallel or sbatch could not be started, or gave up.
+InputError engine_failed(const std::string& engine, const std::string& command, int status);
 
 }  // namespace mirrorcheck::cli::usage

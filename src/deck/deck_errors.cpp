@@ -41,4 +41,15 @@ InputError cannot_write(const Location& where, std::string_view what) {
     return {"prepare.cannot-write", where, fmt::format("cannot write {} here", what)};
 }
 
+InputError no_corner_lib(const std::string& deck_path) {
+    return {"sweep.no-corner-lib", Location(deck_path),
+            "--corners needs a `.lib FILE SECTION` line naming the deck's corner (e.g. `.lib \"models.lib\" tt`); "
+            "the deck has none"};
+}
+
+InputError unknown_corner(const std::string& library, const std::string& corner, const std::string& sections) {
+    return {"sweep.unknown-corner", Location(library),
+            fmt::format("no section `{}` here: expected one of the library's sections ({})", corner, sections)};
+}
+
 }  // namespace mirrorcheck::errors

@@ -49,17 +49,22 @@ bool contains(const std::string& haystack, const char* needle) {
 
 }  // namespace
 
-void run_ngspice_batch(const NgspiceCall& call) {
-    const auto& log_path = call.log;
+std::string ngspice_command(const NgspiceCall& call) {
     // A path given relative to where mirrorcheck runs must survive the change of folder.
     const std::string executable = call.executable.find('/') == std::string::npos
                                        ? call.executable
                                        : std::filesystem::absolute(call.executable).string();
-    const std::string command =
-        fmt::format("cd {} && {} -b {} > {} 2>&1 < /dev/null", shell_quoted(call.run_folder.string()),
-                    shell_quoted(executable), shell_quoted(call.deck.string()), shell_quoted(call.log.string()));
-    const int raw = std::system(command.c_str());
-    const int status = raw == -1 ? -1 : WIFEXITED(raw) ? WEXITSTATUS(raw) : 128 + WTERMSIG(raw);
+    return fmt::format("cd {} && {} -b {} > {} 2>&1 < /dev/null", shell_quoted(call.run_folder.string()),
+                       shell_quoted(executable), shell_quoted(call.deck.string()), shell_quoted(call.log.string()));
+}
+
+void run_ngspice_batch(const NgspiceCall& call) {
+    const int raw = std::system(ngspice_command(call).c_str());
+    check_ngspice_run(call, raw == -1 ? -1 : WIFEXITED(raw) ? WEXITSTATUS(raw) : 128 + WTERMSIG(raw));
+}
+
+void check_ngspice_run(const NgspiceCall& call, int status) {
+    const auto& log_path = call.log;
     const std::string log = read_all(log_path);
     if (status == 127 || status == 126)
         throw errors::ngspice_missing(call.executable, tail(log, 3));

@@ -21,6 +21,11 @@ struct NgspiceCall {
 // exit status or an error in its log) or "ngspice.no-convergence", each with the end of the log.
 void run_ngspice_batch(const NgspiceCall& call);
 
+// The shell command run_ngspice_batch runs, for a scheduler to run instead (GNU parallel,
+// Slurm), and the judgement of its exit status and log afterwards (the same errors).
+std::string ngspice_command(const NgspiceCall& call);
+void check_ngspice_run(const NgspiceCall& call, int exit_status);
+
 // The "ngspice.failed" error for a run that ended but did not produce what was expected,
 // with `what` ("wrote no operating point") and the end of the log.
 InputError ngspice_failure(const NgspiceCall& call, const std::string& what);

@@ -2,6 +2,8 @@
 
 #include <fmt/format.h>
 
+#include "parsers/common/utf8.hpp"
+
 namespace mirrorcheck {
 
 std::string Location::to_string() const {
@@ -12,9 +14,10 @@ std::string Location::to_string() const {
 }
 
 InputError::InputError(std::string code, Location where, std::string message)
-    : std::runtime_error(fmt::format("{}: error: {} [{}]", where.to_string(), message, code)),
+    : std::runtime_error(
+          fmt::format("{}: error: {} [{}]", printable_text(where.to_string()), printable_text(message), code)),
       code_(std::move(code)),
       where_(std::move(where)),
-      message_(std::move(message)) {}
+      message_(printable_text(message)) {}
 
 }  // namespace mirrorcheck

@@ -5,6 +5,7 @@
 
 #include "src/cli/netlist_limits_option.hpp"
 #include "src/model/circuit_build.hpp"
+#include "src/report/json_text.hpp"
 #include "src/recognise/find_mirrors.hpp"
 #include "src/report/mirror_list.hpp"
 
@@ -20,7 +21,7 @@ struct ListOptions {
 int run_list(const ListOptions& o) {
     Circuit circuit = read_circuit(o.netlist, o.limits);
     std::vector<Mirror> mirrors = find_mirrors(circuit);
-    if (o.format == "json") std::cout << report::mirrors_to_json(circuit, mirrors).dump(2) << "\n";
+    if (o.format == "json") std::cout << report::json_text(report::mirrors_to_json(circuit, mirrors)) << "\n";
     else std::cout << report::write_mirror_table(circuit, mirrors);
     return 0;
 }

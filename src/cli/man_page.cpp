@@ -14,6 +14,7 @@
 
 #include <fmt/format.h>
 
+#include "parsers/common/utf8.hpp"
 #include "src/analyse/finding.hpp"
 #include "src/analyse/review_tree.hpp"
 #include "src/cli/exit_status.hpp"
@@ -21,15 +22,12 @@
 namespace mirrorcheck::cli {
 namespace {
 
-// One UTF-8 sequence starting at s[i] as a code point; i moves past it.
+// One UTF-8 sequence starting at s[i] as a code point (U+FFFD for a byte that is not
+// well-formed UTF-8); i moves past it.
 std::uint32_t next_code_point(std::string_view s, std::size_t& i) {
-    const auto byte = [&](std::size_t k) { return static_cast<std::uint32_t>(static_cast<unsigned char>(s[k])); };
-    const std::uint32_t b = byte(i);
-    int extra = b >= 0xF0 ? 3 : b >= 0xE0 ? 2 : b >= 0xC0 ? 1 : 0;
-    std::uint32_t cp = extra == 3 ? b & 0x07 : extra == 2 ? b & 0x0F : extra == 1 ? b & 0x1F : b;
-    ++i;
-    for (; extra > 0 && i < s.size(); --extra, ++i) cp = (cp << 6) | (byte(i) & 0x3F);
-    return cp;
+    const auto decoded = decode_utf8(s.substr(i));
+    i += decoded ? decoded->second : 1;
+    return decoded ? decoded->first : 0xFFFD;
 }
 
 std::string roff_escape(std::string_view s) {

@@ -6,6 +6,7 @@
 #include "parsers/common/input_kind.hpp"
 #include "parsers/listing/listing.hpp"
 #include "src/model/circuit_build.hpp"
+#include "src/report/json_text.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/cli/netlist_limits_option.hpp"
 #include "src/cli/usage_errors.hpp"
@@ -36,7 +37,7 @@ void peek_raw(const PeekOptions& o) {
     raw::Selection selection{o.plots, false};
     raw::RawFile file = raw::read_raw(o.file, selection);
     check_vectors_exist(file, o.vectors);
-    if (o.format == "json") std::cout << report::raw_to_json(file, o.vectors).dump(2) << "\n";
+    if (o.format == "json") std::cout << report::json_text(report::raw_to_json(file, o.vectors)) << "\n";
     else if (!o.vectors.empty()) std::cout << report::write_raw_vectors(file, o.vectors);
     else std::cout << report::write_raw_table(file, o.plots);
 }
@@ -44,14 +45,14 @@ void peek_raw(const PeekOptions& o) {
 void peek_listing(const PeekOptions& o) {
     if (!o.vectors.empty() || !o.plots.empty()) throw usage::option_needs_raw(o.file);
     listing::Listing l = listing::read_listing(o.file);
-    if (o.format == "json") std::cout << report::listing_to_json(l).dump(2) << "\n";
+    if (o.format == "json") std::cout << report::json_text(report::listing_to_json(l)) << "\n";
     else std::cout << report::write_listing_table(l);
 }
 
 void peek_netlist(const PeekOptions& o) {
     if (!o.vectors.empty() || !o.plots.empty()) throw usage::option_needs_raw(o.file);
     Circuit circuit = read_circuit(o.file, o.limits);
-    if (o.format == "json") std::cout << report::circuit_to_json(circuit).dump(2) << "\n";
+    if (o.format == "json") std::cout << report::json_text(report::circuit_to_json(circuit)) << "\n";
     else std::cout << report::write_circuit_table(circuit);
 }
 

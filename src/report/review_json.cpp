@@ -8,6 +8,7 @@
 #include <string_view>
 
 #include "src/report/finding_text.hpp"
+#include "src/report/json_text.hpp"
 
 namespace mirrorcheck::report {
 namespace {
@@ -257,7 +258,7 @@ void for_each_listed(const ReviewTree& t, const std::string& name, Each each) {
 
 const char* const listed[] = {"mirrors", "devices", "findings"};
 
-std::string dumped(const json& j) { return j.dump(2, ' ', false, json::error_handler_t::replace); }
+std::string dumped(const json& j) { return json_text(j); }
 
 // `text` with every line after the first indented by `depth` levels of two spaces.
 void put(std::ostream& out, const std::string& text, std::size_t depth) {

@@ -8,6 +8,7 @@
 #include <fmt/format.h>
 
 #include "parsers/common/si_format.hpp"
+#include "src/report/json_text.hpp"
 #include "src/report/sweep_report.hpp"
 #include "src/report/text_layout.hpp"
 
@@ -119,7 +120,7 @@ void write_sweep(Format format, const sweep::SweepResult& result, const SweepInp
             out << write_sweep_table(result, inputs, style);
             break;
         case Format::json:
-            out << sweep_to_json(result, inputs).dump(2, ' ', false, nlohmann::json::error_handler_t::replace) << "\n";
+            out << json_text(sweep_to_json(result, inputs)) << "\n";
             break;
         case Format::junit:
             out << sweep_to_junit(result, inputs);

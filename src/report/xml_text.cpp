@@ -8,28 +8,12 @@
 
 #include <fmt/format.h>
 
+#include "parsers/common/utf8.hpp"
+
 namespace mirrorcheck::report::xml {
 namespace {
 
 constexpr std::string_view replacement_character = "\xEF\xBF\xBD";
-
-// The code point of the UTF-8 sequence at the start of `s` and its length, or nothing when
-// it is not well-formed UTF-8 (overlong forms and surrogates included).
-std::optional<std::pair<std::uint32_t, std::size_t>> decode_utf8(std::string_view s) {
-    const auto byte = [&](std::size_t i) { return static_cast<unsigned char>(s[i]); };
-    const unsigned char lead = byte(0);
-    if (lead < 0x80) return std::pair<std::uint32_t, std::size_t>{lead, 1};
-    const std::size_t length = lead >= 0xF0 ? 4 : lead >= 0xE0 ? 3 : lead >= 0xC0 ? 2 : 0;
-    if (length == 0 || length > s.size()) return std::nullopt;
-    std::uint32_t cp = lead & (0x7F >> length);
-    for (std::size_t i = 1; i < length; ++i) {
-        if ((byte(i) & 0xC0) != 0x80) return std::nullopt;
-        cp = (cp << 6) | (byte(i) & 0x3F);
-    }
-    static constexpr std::uint32_t smallest[] = {0, 0, 0x80, 0x800, 0x10000};
-    if (cp < smallest[length] || cp > 0x10FFFF || (cp >= 0xD800 && cp <= 0xDFFF)) return std::nullopt;
-    return std::pair<std::uint32_t, std::size_t>{cp, length};
-}
 
 // XML 1.0's Char production.
 bool allowed_in_xml(std::uint32_t cp) {

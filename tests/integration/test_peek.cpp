@@ -112,3 +112,13 @@ TEST_CASE("every corrupt raw file: exit status 2, the error code and location on
     }
     CHECK(count >= 15);
 }
+
+// A hostile probe's minimal input: a 4-byte title followed by byte 0xDD, not UTF-8.
+TEST_CASE("peek and list --format json of a netlist whose names are not UTF-8: U+FFFD, not an internal error") {
+    for (const std::string command : {"peek ", "list "}) {
+        Result r = mirrorcheck::test::run_cli(command + data("netlist/title_not_utf8.cir") + " --format json");
+        CHECK(r.status == 0);
+        const auto j = nlohmann::json::parse(r.out);
+        CHECK(j["title"] == "{a}\xEF\xBF\xBD");
+    }
+}

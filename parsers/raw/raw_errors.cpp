@@ -85,12 +85,14 @@ InputError raw_missing_data_marker(const Location& where, std::string_view found
                         found.empty() ? std::string("the end of the file") : quote(found))};
 }
 
-InputError raw_truncated_binary(const Location& where, std::uint64_t points, std::uint64_t needed,
+InputError raw_truncated_binary(const Location& where, std::uint64_t points, std::uint64_t row_bytes,
                                 std::uint64_t available) {
+    std::uint64_t needed = 0;
+    const bool beyond = __builtin_mul_overflow(points, row_bytes, &needed);
     return {"raw.truncated-data", where,
             fmt::format("binary data for {} point{} needs {} bytes, but only {} remain in the file; "
                         "the file is cut short or `No. Points` is wrong",
-                        points, points == 1 ? "" : "s", needed, available)};
+                        points, points == 1 ? "" : "s", beyond ? "at least 2^64" : std::to_string(needed), available)};
 }
 
 InputError raw_too_many_points(const Location& where, std::uint64_t points, std::uint64_t room) {

@@ -22,7 +22,8 @@ InputError raw_bad_variable_line(const Location& where, std::size_t expected_ind
 InputError raw_short_variable_table(const Location& where, std::size_t found, std::size_t announced);
 InputError raw_duplicate_variable(const Location& where, std::string_view name, std::string_view first);
 InputError raw_missing_data_marker(const Location& where, std::string_view found);
-InputError raw_truncated_binary(const Location& where, std::uint64_t points, std::uint64_t needed,
+// `row_bytes` per point; the product is not wrapped round.
+InputError raw_truncated_binary(const Location& where, std::uint64_t points, std::uint64_t row_bytes,
                                 std::uint64_t available);
 InputError raw_too_many_points(const Location& where, std::uint64_t points, std::uint64_t room);
 InputError raw_truncated_values(const Location& where, std::uint64_t point, std::uint64_t points);

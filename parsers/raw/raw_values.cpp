@@ -6,6 +6,7 @@
 #include <algorithm>
 #include <bit>
 #include <charconv>
+#include <cstdint>
 #include <cstring>
 #include <thread>
 
@@ -74,7 +75,7 @@ void read_binary(Cursor& c, Plot& plot, bool wanted) {
     const std::uint64_t available = c.remaining();
     c.after_binary = true;
     if (plot.point_count > available / row)
-        throw errors::raw_truncated_binary(c.at_byte(c.pos), plot.point_count, plot.point_count * row, available);
+        throw errors::raw_truncated_binary(c.at_byte(c.pos), plot.point_count, row, available);
     const std::uint64_t size = plot.point_count * row;
     if (wanted) {
         allocate_columns(plot);
@@ -204,7 +205,9 @@ private:
 
 // Passes over the values by counting non-blank lines (one per value), converting nothing.
 void skip_ascii(Cursor& c, const Plot& plot) {
-    const std::uint64_t lines = plot.point_count * plot.variables.size();
+    // Saturated: a count past 2^64 lines runs into the end of the file like any other too large.
+    std::uint64_t lines = 0;
+    if (__builtin_mul_overflow(plot.point_count, plot.variables.size(), &lines)) lines = UINT64_MAX;
     for (std::uint64_t seen = 0; seen < lines;) {
         c.skip_space();
         if (c.at_end())
@@ -258,7 +261,9 @@ std::vector<Segment> split_points(const Cursor& c, const Plot& plot, unsigned pa
 // it in one pass, which also gives any error its exact line.
 bool decode_ascii_parallel(Cursor& c, Plot& plot) {
     const unsigned cores = std::min(4u, std::thread::hardware_concurrency());
-    if (cores < 2 || plot.point_count * plot.variables.size() < (std::uint64_t{1} << 18)) return false;
+    std::uint64_t values = 0;
+    if (__builtin_mul_overflow(plot.point_count, plot.variables.size(), &values)) values = UINT64_MAX;
+    if (cores < 2 || values < (std::uint64_t{1} << 18)) return false;
     const std::vector<Segment> segments = split_points(c, plot, cores);
     if (segments.size() < 2) return false;
     std::vector<Cursor> cursors(segments.size(), c);

@@ -217,3 +217,24 @@ TEST_CASE("mutated and cut copies of valid files give a result or an InputError,
     std::filesystem::remove_all(dir);
     CHECK(errors > total / 4);  // most cuts and many byte flips must be caught
 }
+
+// From a hostile probe: `No. Points` of 2^61 times 8 bytes a point wrapped round to
+// "needs 0 bytes" in the message.
+TEST_CASE("a point count whose byte size passes 2^64 is reported as such, not wrapped round") {
+    const auto path = std::filesystem::temp_directory_path() / "mc-points-2-61.raw";
+    {
+        std::ofstream out(path, std::ios::binary);
+        out << "Title: t\nDate: d\nPlotname: Operating Point\nFlags: real\nNo. Variables: 1\n"
+               "No. Points: 2305843009213693952\nVariables:\n\t0\tv(a)\tvoltage\nBinary:\n";
+        out.write("\0\0\0\0\0\0\xf0\x3f", 8);
+    }
+    try {
+        raw::read_raw(path.string());
+        FAIL("read");
+    } catch (const InputError& e) {
+        CHECK(e.code() == "raw.truncated-data");
+        CHECK(e.message().find("2305843009213693952 points needs at least 2^64 bytes, but only 8 remain") !=
+              std::string::npos);
+    }
+    std::filesystem::remove(path);
+}

@@ -10,6 +10,7 @@
 #include <vector>
 
 #include "parsers/common/column_allocator.hpp"
+#include "parsers/common/input_error.hpp"
 #include "parsers/common/id_table.hpp"
 
 namespace mirrorcheck::raw {
@@ -74,6 +75,10 @@ struct RawFile {
 // Reads a raw file; throws mirrorcheck::InputError with file and line (ASCII header and
 // values) or byte offset (binary data) on anything it cannot read.
 RawFile read_raw(const std::filesystem::path& path, const Selection& selection = {});
+
+// Where a decoded value came from, for a message about it: the byte offset of a binary
+// plot's value; for an ASCII plot the file alone (its values' lines are not kept).
+Location value_location(const RawFile& file, const Plot& plot, std::size_t variable, std::size_t point);
 
 // The canonical spelling that Plot::find compares: lower case, `v(...)` unwrapped,
 // `i(x)` written as `x#branch`, `i(@dev[p])` as `@dev[p]`.

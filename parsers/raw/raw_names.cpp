@@ -36,6 +36,12 @@ std::optional<std::size_t> Plot::find(std::string_view name) const {
     return i;
 }
 
+Location value_location(const RawFile& file, const Plot& plot, std::size_t variable, std::size_t point) {
+    if (plot.encoding == Encoding::ascii) return Location(file.path);
+    const std::uint64_t size = plot.complex ? 16 : 8;
+    return Location::at_byte(file.path, plot.data_offset + (point * plot.variables.size() + variable) * size);
+}
+
 std::string Plot::kind() const {
     static const std::pair<std::string_view, std::string_view> kinds[] = {
         {"operating point", "op"}, {"ac analysis", "ac"},    {"transfer function", "tf"},

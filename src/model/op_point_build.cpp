@@ -24,12 +24,14 @@
 //   knows). Capacitances are positive for p-type devices as for n-type.
 #include "src/model/op_point_build.hpp"
 
+#include <cmath>
 #include <map>
 
 #include <fmt/format.h>
 
 #include "src/model/device_parasitics.hpp"
 #include "src/model/op_point_errors.hpp"
+#include "src/model/plot_value_errors.hpp"
 
 namespace mirrorcheck {
 namespace {
@@ -148,10 +150,20 @@ void read_quantities(DeviceOp& op, const Device& d, Find find) {
         op.values["vce"] = op.values["vbe"] - op.values["vbc"];
 }
 
-std::optional<double> plot_value(const raw::Plot& plot, const std::string& vector) {
+// A value the review uses: infinity or NaN (a run that did not converge, a corrupt file)
+// is an input error at its place.
+double finite_value(const raw::RawFile& file, const raw::Plot& plot, std::size_t index) {
+    const double v = plot.complex ? plot.cplx[index][0].real() : plot.real[index][0];
+    if (!std::isfinite(v))
+        throw errors::op_value_not_finite(raw::value_location(file, plot, index, 0), plot.name,
+                                          plot.variables[index].name, v);
+    return v;
+}
+
+std::optional<double> plot_value(const raw::RawFile& file, const raw::Plot& plot, const std::string& vector) {
     auto index = plot.find(vector);
     if (!index || !plot.decoded || plot.point_count == 0) return std::nullopt;
-    return plot.complex ? plot.cplx[*index][0].real() : plot.real[*index][0];
+    return finite_value(file, plot, *index);
 }
 
 // A node voltage: `v(x)` or `x` of type voltage, not a device parameter or branch. Device
@@ -164,10 +176,10 @@ bool is_node_voltage(const raw::Variable& v) {
     return hash == std::string::npos || (hash > 0 && name.find("#branch") == std::string::npos);
 }
 
-void read_node_voltages(OpPoint& op, const raw::Plot& plot) {
+void read_node_voltages(OpPoint& op, const raw::RawFile& file, const raw::Plot& plot) {
     for (std::size_t i = 0; i < plot.variables.size(); ++i)
         if (is_node_voltage(plot.variables[i]) && !plot.complex && plot.decoded && plot.point_count > 0)
-            op.node_voltages[raw::canonical_vector_name(plot.variables[i].name)] = plot.real[i][0];
+            op.node_voltages[raw::canonical_vector_name(plot.variables[i].name)] = finite_value(file, plot, i);
 }
 
 // The listing entry for a device, allowing for names ngspice cut short; null (with a
@@ -372,12 +384,12 @@ OpPoint build_op_point(const Circuit& circuit, const raw::RawFile& file, const r
     OpPoint op;
     op.origin = fmt::format("{}: {}", file.path, plot.name);
     if (plot.complex) op.notes.push_back("device parameters taken from the op values that the AC plot repeats");
-    else read_node_voltages(op, plot);
+    else read_node_voltages(op, file, plot);
     std::map<std::string, std::vector<std::string>> derived;
     for (const auto& d : circuit.devices()) {
         if (!is_transistor(d)) continue;
         DeviceOp dev = blank_device_op(d, op.origin);
-        read_quantities(dev, d, [&](std::string_view p) { return plot_value(plot, fmt::format("@{}[{}]", d.name, p)); });
+        read_quantities(dev, d, [&](std::string_view p) { return plot_value(file, plot, fmt::format("@{}[{}]", d.name, p)); });
         for (const auto& q : derive_terminal_voltages(op, d, dev)) derived[q].push_back(d.name);
         op.devices.emplace(d.name, std::move(dev));
     }

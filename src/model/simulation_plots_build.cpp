@@ -1,8 +1,11 @@
 #include "src/model/simulation_plots_build.hpp"
 
+#include <cmath>
 #include <filesystem>
 
 #include <fmt/format.h>
+
+#include "src/model/plot_value_errors.hpp"
 
 namespace mirrorcheck {
 
@@ -33,7 +36,12 @@ std::vector<SimulationPlot> simulation_plots_from_raw(const raw::RawFile& file) 
             else values.assign(plot.real[v].begin(), plot.real[v].end());
             const raw::Variable& var = plot.variables[v];
             if (kind == "ac" && var.type == "frequency") {
-                for (const auto& f : values) p.frequencies.push_back(f.real());
+                for (std::size_t i = 0; i < values.size(); ++i) {
+                    const double f = values[i].real();
+                    if (!std::isfinite(f) || f < 0)
+                        throw errors::ac_bad_frequency(raw::value_location(file, plot, v, i), plot.name, i, f);
+                    p.frequencies.push_back(f);
+                }
                 continue;
             }
             p.vectors.emplace(raw::canonical_vector_name(var.name), std::move(values));

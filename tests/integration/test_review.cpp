@@ -5,6 +5,7 @@
 // review from the `show` listing as from the raw file, and exit 2 when the operating
 // point lacks the device parameters, with the save line to add.
 #include <algorithm>
+#include <cmath>
 #include <cstdlib>
 #include <filesystem>
 #include <string>
@@ -193,4 +194,68 @@ TEST_CASE("--help names every exit status, 3 for an internal error") {
     CHECK(help.status == 0);
     for (const char* status : {"0 no unwaived finding", "1 some", "2 bad usage", "3 an internal error"})
         CHECK(help.out.find(status) != std::string::npos);
+}
+
+// From a hostile probe: +Inf and NaN in an op raw file read as "saturation, margin inf V"
+// and as cutoff. ngspice writes the op here; the test puts the bad value into a copy.
+TEST_CASE("a non-finite value in the op (binary raw, ASCII raw, listing): exit 2 at its place") {
+    auto run = mirrorcheck::test::run_ngspice(cascode_deck(2.0, true), "mc-review");
+    REQUIRE_MESSAGE(run.status == 0, run.output);
+    auto raw = mirrorcheck::raw::read_raw(run.file("op.raw"));
+    const auto& op = raw.plots[0];
+    const std::size_t gm = *op.find("@m4[gm]");
+    const auto where = mirrorcheck::raw::value_location(raw, op, gm, 0);
+    REQUIRE(where.byte_offset);
+    {
+        std::string bytes = mirrorcheck::test::read_text(run.file("op.raw"));
+        const double inf = HUGE_VAL;
+        bytes.replace(*where.byte_offset, 8, reinterpret_cast<const char*>(&inf), 8);
+        mirrorcheck::test::write_text(run.dir / "inf.raw", bytes);
+    }
+    Result r = review(run.dir, "deck.cir --op inf.raw");
+    CHECK(r.status == 2);
+    CHECK(r.err.find("inf.raw: byte " + std::to_string(*where.byte_offset)) != std::string::npos);
+    CHECK(r.err.find("`@m4[gm]`") != std::string::npos);
+    CHECK(r.err.find("+infinity") != std::string::npos);
+    CHECK(r.err.find("[op.not-finite]") != std::string::npos);
+
+    // ngspice's listing with one value written as `nan`
+    std::string listing = mirrorcheck::test::read_text(run.file("show.txt"));
+    const auto row = listing.find(" gm ");  // `         gm           0.000408315 ...`
+    REQUIRE(row != std::string::npos);
+    const auto value = listing.find_first_not_of(' ', row + 3);
+    const auto end = listing.find(' ', value);
+    listing.replace(value, end - value, "nan");
+    mirrorcheck::test::write_text(run.dir / "nan.txt", listing);
+    Result l = review(run.dir, "deck.cir --op nan.txt");
+    CHECK(l.status == 2);
+    CHECK(l.err.find("[listing.bad-number]") != std::string::npos);
+    CHECK(l.err.find("`nan`") != std::string::npos);
+}
+
+// From the same probe: AC plots at NaN or negative frequencies were read, and the impedance
+// reported "at -1 Hz". The sample's results file (ngspice's) with one frequency spoiled.
+TEST_CASE("an AC plot at a negative or NaN frequency: exit 2 naming the plot, point and byte") {
+    const std::string source = std::string(MIRRORCHECK_SOURCE_DIR) + "/samples/tamarack/";
+    auto raw = mirrorcheck::raw::read_raw(source + "bias_op.raw");
+    std::size_t k = 0;
+    while (k < raw.plots.size() && raw.plots[k].kind() != "ac") ++k;
+    REQUIRE(k < raw.plots.size());
+    const auto& ac = raw.plots[k];
+    REQUIRE(ac.variables[0].type == "frequency");
+    const auto where = mirrorcheck::raw::value_location(raw, ac, 0, 1);
+    REQUIRE(where.byte_offset);
+    const auto dir = mirrorcheck::test::make_temp_dir("mc-review-ac");
+    std::filesystem::copy_file(source + "bias.cir", dir / "bias.cir");
+    for (const double bad : {-1.0, std::nan("")}) {
+        std::string bytes = mirrorcheck::test::read_text(source + "bias_op.raw");
+        bytes.replace(*where.byte_offset, 8, reinterpret_cast<const char*>(&bad), 8);
+        mirrorcheck::test::write_text(dir / "bad.raw", bytes);
+        Result r = review(dir, "bias.cir --op bad.raw");
+        CHECK(r.status == 2);
+        CHECK(r.err.find("bad.raw: byte " + std::to_string(*where.byte_offset)) != std::string::npos);
+        CHECK(r.err.find("point 2 of the plot `" + ac.name + "`") != std::string::npos);
+        CHECK(r.err.find("[ac.bad-frequency]") != std::string::npos);
+    }
+    std::filesystem::remove_all(dir);
 }

@@ -1,5 +1,6 @@
 #include "src/cli/review_command.hpp"
 
+#include <cmath>
 #include <filesystem>
 #include <iostream>
 #include <memory>
@@ -27,6 +28,7 @@ double quantity(const std::string& option, const std::string& text, const char* 
         if (lacks_unit(text)) throw usage::quantity_without_unit(option, text, unit);
         throw usage::bad_quantity(option, text, unit);
     }
+    if (!std::isfinite(*v)) throw usage::not_finite_quantity(option, text);
     if (*v < 0) throw usage::negative_quantity(option, text);
     return *v;
 }
@@ -131,6 +133,12 @@ namespace {
 
 int review_with(const ReviewOptions& o, const ReviewSettings& settings, const Circuit& circuit,
                 const std::vector<std::string>& left_out) {
+    // A probe that names no node or no source of the circuit would be silently unused.
+    for (const auto& probe : settings.simulated.probes) {
+        if (!circuit.find_net(probe.node)) throw usage::probe_names_nothing(probe.node + "=" + probe.source, "node", probe.node);
+        if (!circuit.find_device(probe.source))
+            throw usage::probe_names_nothing(probe.node + "=" + probe.source, "source", probe.source);
+    }
     OpPoint op = read_op(circuit, o.op);
     if (!o.op_name.empty() && op.origin.rfind(o.op, 0) == 0) op.origin = o.op_name + op.origin.substr(o.op.size());
     std::vector<std::string> simulation_files;

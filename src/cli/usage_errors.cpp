@@ -42,6 +42,17 @@ InputError negative_quantity(const std::string& option, const std::string& text)
     return {"usage.negative-value", Location(option), fmt::format("`{}` is below zero; give a value of 0 or more", text)};
 }
 
+InputError not_finite_quantity(const std::string& option, const std::string& text) {
+    return {"usage.not-finite", Location(option), fmt::format("`{}` is not a finite number", text)};
+}
+
+InputError probe_names_nothing(const std::string& probe, const std::string& what, const std::string& name) {
+    return {"usage.probe", Location("--probe"),
+            fmt::format("`{}`: the netlist has no {} `{}`; expected NODE=SOURCE naming an output node and the source "
+                        "that probes it",
+                        probe, what, name)};
+}
+
 InputError no_op_plot(const std::string& path) {
     return {"usage.no-op-plot", Location(path),
             "no operating point here: expected a raw file with an op plot (or an AC plot with saved device "

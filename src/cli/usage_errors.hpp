@@ -21,6 +21,10 @@ InputError sweep_not_upwards(const std::string& from, const std::string& to);
 InputError would_overwrite_input(const std::string& output, const std::string& input);
 InputError copy_would_overwrite_input(const std::string& copy);
 InputError no_temporary_folder(const std::string& where);
+// An option value that is NaN or infinite (`--margin nanV`).
+InputError not_finite_quantity(const std::string& option, const std::string& text);
+// `--probe NODE=SOURCE` naming a node or source the netlist lacks.
+InputError probe_names_nothing(const std::string& probe, const std::string& what, const std::string& name);
 InputError cannot_write(const std::string& path);
 // --min-yield above 100 %.
 InputError min_yield_above_one(const std::string& text);

@@ -135,7 +135,12 @@ TEST_CASE("option values need their unit; negative margins and tolerances are re
                           Case{"--margin 100mA", "usage.bad-quantity", "100mV"},
                           Case{"--margin -50mV", "usage.negative-value", "0 or more"},
                           Case{"--tolerance -10%", "usage.negative-value", "0 or more"},
-                          Case{"--ratio-tolerance -5%", "usage.negative-value", "0 or more"}}) {
+                          Case{"--ratio-tolerance -5%", "usage.negative-value", "0 or more"},
+                          // a hostile probe: these once switched the check off or were ignored
+                          Case{"--margin nanV", "usage.not-finite", "not a finite number"},
+                          Case{"--tolerance inf%", "usage.not-finite", "not a finite number"},
+                          Case{"--probe nonode=vout", "usage.probe", "no node `nonode`"},
+                          Case{"--probe out=vnosuch", "usage.probe", "no source `vnosuch`"}}) {
         CAPTURE(c.options);
         Result r = review(run.dir, "deck.cir --op op.raw " + c.options);
         CHECK(r.status == 2);

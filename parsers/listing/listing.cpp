@@ -14,7 +14,6 @@
 
 #include <algorithm>
 #include <charconv>
-#include <cmath>
 #include <map>
 #include <optional>
 #include <utility>
@@ -402,11 +401,7 @@ private:
     Value classify_cell(const Cell& cell, const Line& line, std::string_view row) const {
         if (is_placeholder(cell.text)) return {CellKind::placeholder, 0.0, cell.text};
         if (cell.text.starts_with("<<")) return {CellKind::unavailable, 0.0, cell.text};
-        if (auto number = parse_number(cell.text)) {
-            // `nan`, `inf`: read as numbers, but no operating point holds them.
-            if (!std::isfinite(*number)) throw errors::listing_bad_number(where(line, cell.start), row, cell.text);
-            return {CellKind::number, *number, cell.text};
-        }
+        if (auto number = parse_number(cell.text)) return {CellKind::number, *number, cell.text};
         if (looks_numeric(cell.text)) throw errors::listing_bad_number(where(line, cell.start), row, cell.text);
         return {CellKind::text, 0.0, cell.text};
     }

@@ -407,6 +407,11 @@ OpPoint build_op_point(const Circuit& circuit, const listing::Listing& listing) 
             read_quantities(dev, d, [&](std::string_view p) -> std::optional<double> {
                 auto it = entry->parameters.find(std::string(p));
                 if (it == entry->parameters.end()) return std::nullopt;
+                // ngspice prints `nan`/`inf` for what it could not compute: fine in the
+                // listing, an input error for a value the review uses.
+                if (!std::isfinite(it->second))
+                    throw errors::op_value_not_finite(Location(listing.path), "show listing",
+                                                      d.name + " " + std::string(p), it->second);
                 return it->second;
             });
         op.devices.emplace(d.name, std::move(dev));

@@ -234,8 +234,9 @@ TEST_CASE("a non-finite value in the op (binary raw, ASCII raw, listing): exit 2
     mirrorcheck::test::write_text(run.dir / "nan.txt", listing);
     Result l = review(run.dir, "deck.cir --op nan.txt");
     CHECK(l.status == 2);
-    CHECK(l.err.find("[listing.bad-number]") != std::string::npos);
-    CHECK(l.err.find("`nan`") != std::string::npos);
+    CHECK(l.err.find("gm` in the plot `show listing` is not a number (NaN)") != std::string::npos);
+    CHECK(l.err.find("nan.txt: error:") != std::string::npos);
+    CHECK(l.err.find("[op.not-finite]") != std::string::npos);
 }
 
 // From the same probe: AC plots at NaN or negative frequencies were read, and the impedance

@@ -171,7 +171,8 @@ struct ReadLimits {
     // Devices after flattening: a few subcircuit levels that each instantiate the next
     // twice multiply into millions. The reader needs about 270 bytes a device, the commands
     // that keep the whole circuit (list, peek, review) about 1 to 5 kB.
-    std::size_t max_devices = 2'000'000;
+    // 2^20: a million-element deck reads; the 2^20 + 1 devices of a 20-level bomb do not.
+    std::size_t max_devices = std::size_t{1} << 20;
 };
 
 // Reads, expands and flattens the netlist at `path`. Throws InputError (codes "netlist.*",

@@ -163,28 +163,41 @@ TEST_CASE("pathological nesting is refused, not a stack overflow") {
 
 // Decks that are small on disk and huge or deep once read (found by a hostile probe): each
 // must end in an InputError naming its limit, quickly, never a crash or gigabytes.
-TEST_CASE("a subcircuit bomb stops at the device limit, at the outermost X line") {
-    Decks decks;
-    // Each level instantiates the next twice: 2^20 resistors from 21 short definitions.
-    std::string bomb = "bomb\n.subckt l20 a\nR1 a 0 1\n.ends\n";
-    for (int i = 19; i >= 0; --i)
+namespace {
+
+// Each level instantiates the next twice: 2^levels resistors from levels + 1 short
+// definitions, under `Xtop` on the last line.
+std::string subcircuit_bomb(int levels) {
+    std::string bomb = "bomb\n.subckt l" + std::to_string(levels) + " a\nR1 a 0 1\n.ends\n";
+    for (int i = levels - 1; i >= 0; --i)
         bomb += ".subckt l" + std::to_string(i) + " a\nXa a l" + std::to_string(i + 1) + "\nXb a l" +
                 std::to_string(i + 1) + "\n.ends\n";
-    bomb += "V1 a 0 1\nXtop a l0\n";
-    const auto path = decks.write("bomb.cir", bomb);
+    return bomb + "V1 a 0 1\nXtop a l0\n";
+}
+
+}  // namespace
+
+TEST_CASE("a subcircuit bomb stops at the device limit, at the outermost X line") {
+    Decks decks;
+    // The probe's 823-byte deck flattened to 2^20 + 1 devices, just over the default limit.
+    CHECK(mirrorcheck::netlist::ReadLimits{}.max_devices == (1u << 20));
     mirrorcheck::netlist::ReadLimits limits;
-    limits.max_devices = 100'000;
+    limits.max_devices = 20'000;  // the same error sooner (this also runs under the sanitizers)
     try {
-        mirrorcheck::netlist::read_netlist(path, limits);
+        mirrorcheck::netlist::read_netlist(decks.write("bomb.cir", subcircuit_bomb(20)), limits);
         FAIL("the bomb was read");
     } catch (const InputError& e) {
         CHECK(e.code() == "netlist.too-many-devices");
         CHECK(e.where().line == 86);  // `Xtop a l0`
-        CHECK(e.message().find("past 100000 devices") != std::string::npos);
+        CHECK(e.message().find("past 20000 devices") != std::string::npos);
         CHECK(e.message().find("--max-devices") != std::string::npos);
     }
-    limits.max_devices = 2'000'000;  // raised: 2^20 + 1 devices read
-    CHECK(mirrorcheck::netlist::read_netlist(path, limits).devices.size() == (1u << 20) + 1);
+    // A smaller bomb under a raised limit is read whole.
+    const auto small = decks.write("small.cir", subcircuit_bomb(14));
+    limits.max_devices = (1u << 14);
+    CHECK_THROWS_AS(mirrorcheck::netlist::read_netlist(small, limits), InputError);
+    limits.max_devices = (1u << 14) + 1;
+    CHECK(mirrorcheck::netlist::read_netlist(small, limits).devices.size() == (1u << 14) + 1);
 }
 
 TEST_CASE("30,000 nested definitions and an 8,000-file include chain are refused, not a stack overflow") {

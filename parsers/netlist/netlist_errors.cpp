@@ -105,7 +105,7 @@ InputError include_too_deep(const Location& where, std::size_t levels) {
 
 InputError included_too_often(const Location& where, std::string_view file, std::size_t times) {
     return {"netlist.included-too-often", where,
-            fmt::format("`{}` is read for the {}th time here; files that include the next one more than once "
+            fmt::format("`{}` would be read {} times by here; files that include the next one more than once "
                         "multiply the reading, and this reader stops there",
                         file, times)};
 }

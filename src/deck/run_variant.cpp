@@ -7,15 +7,12 @@
 
 #include <fmt/format.h>
 
+#include "parsers/common/text.hpp"
 #include "src/deck/deck_errors.hpp"
+#include "src/deck/deck_text.hpp"
 
 namespace mirrorcheck {
 namespace {
-
-std::string lower(std::string s) {
-    for (char& c : s) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-    return s;
-}
 
 std::vector<std::string> split_lines(const std::string& text) {
     std::vector<std::string> lines;
@@ -47,11 +44,6 @@ std::vector<std::string> words(const std::string& line) {
     return out;
 }
 
-bool is_card(const std::string& line, const char* keyword) {
-    const auto w = words(line);
-    return !w.empty() && lower(w[0]) == keyword;
-}
-
 // The section names a library file defines (`.lib NAME` lines with one word after .lib).
 std::vector<std::string> sections_of(const std::filesystem::path& library) {
     std::ifstream in(library, std::ios::binary);
@@ -60,7 +52,7 @@ std::vector<std::string> sections_of(const std::filesystem::path& library) {
     while (std::getline(in, line)) {
         if (!line.empty() && line.back() == '\r') line.pop_back();
         const auto w = words(line);
-        if (w.size() == 2 && lower(w[0]) == ".lib") sections.push_back(lower(w[1]));
+        if (w.size() == 2 && to_lower(w[0]) == ".lib") sections.push_back(to_lower(w[1]));
     }
     return sections;
 }
@@ -68,7 +60,7 @@ std::vector<std::string> sections_of(const std::filesystem::path& library) {
 // The review's control block: the last `.control` line (the user's are comments by now).
 std::size_t control_line(const std::vector<std::string>& lines) {
     for (std::size_t k = lines.size(); k-- > 0;)
-        if (is_card(lines[k], ".control")) return k;
+        if (first_word(lines[k]) == ".control") return k;
     return lines.size();
 }
 
@@ -81,11 +73,11 @@ std::size_t find_corner_line(const std::string& deck_text, const std::vector<std
     std::string first_sections;
     for (std::size_t k = 0; k < lines.size(); ++k) {
         const auto w = words(lines[k]);
-        if (w.size() != 3 || lower(w[0]) != ".lib") continue;
+        if (w.size() != 3 || to_lower(w[0]) != ".lib") continue;
         const auto sections = sections_of(w[1]);
         bool all = true;
         for (const auto& c : corners)
-            if (std::find(sections.begin(), sections.end(), lower(c)) == sections.end()) {
+            if (std::find(sections.begin(), sections.end(), to_lower(c)) == sections.end()) {
                 all = false;
                 if (!first_missing) {
                     first_missing = {w[1], c};
@@ -107,7 +99,7 @@ std::string write_run_variant(const std::string& deck_text, const RunVariant& ru
     }
     if (run.temperature)
         for (auto& line : lines)
-            if (is_card(line, ".temp")) line = "*(sweep sets the temperature) " + line;
+            if (first_word(line) == ".temp") line = "*(sweep sets the temperature) " + line;
     const std::size_t control = control_line(lines);
     std::vector<std::string> before, inside;
     if (run.temperature) before.push_back(fmt::format(".temp {}", *run.temperature));

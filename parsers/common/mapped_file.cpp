@@ -14,7 +14,9 @@
 namespace mirrorcheck {
 
 MappedFile::MappedFile(const std::filesystem::path& path) : path_(path.string()) {
-    int fd = ::open(path_.c_str(), O_RDONLY | O_CLOEXEC);
+    // O_NONBLOCK: opening a FIFO (`.include` of a named pipe) would otherwise wait for a
+    // writer forever; it is refused below as not a regular file, and has no effect on one.
+    int fd = ::open(path_.c_str(), O_RDONLY | O_CLOEXEC | O_NONBLOCK);
     if (fd < 0) throw errors::cannot_open(path_, std::strerror(errno));
     struct stat st {};
     if (::fstat(fd, &st) != 0 || !S_ISREG(st.st_mode)) {

@@ -6,6 +6,8 @@
 #include <string>
 #include <vector>
 
+#include <sys/stat.h>
+
 #include "parsers/netlist/netlist.hpp"
 #include "support/ngspice_run.hpp"
 
@@ -275,4 +277,20 @@ TEST_CASE("mutated netlists never crash: they read, or give an InputError") {
     MESSAGE(reads << " mutated decks read, " << errors << " refused with an InputError");
     CHECK(errors > 0);
     CHECK(errors < reads);
+}
+
+TEST_CASE("an include of a named pipe is refused at once, not waited on for a writer") {
+    // Found while preparing the fuzz targets: open() of a FIFO blocks until something
+    // writes to it, so `.include pipe` hung the reader (and any CI job) forever.
+    Decks decks;
+    const auto pipe = decks.dir / "pipe";
+    REQUIRE(::mkfifo(pipe.c_str(), 0600) == 0);
+    try {
+        mirrorcheck::netlist::read_netlist(decks.write("deck.cir", "t\n.include pipe\nR1 a 0 1\n"));
+        FAIL("a FIFO was read as an include");
+    } catch (const InputError& e) {
+        CHECK(e.code() == "netlist.missing-include");
+        CHECK(e.where().line == 2);
+        CHECK(e.message().find("not a regular file") != std::string::npos);
+    }
 }

@@ -25,8 +25,8 @@ std::string printable_text(std::string_view text) {
     out.reserve(text.size());
     while (!text.empty()) {
         const auto decoded = decode_utf8(text);
-        const bool control = decoded && ((decoded->first < 0x20 && decoded->first != '\t') || decoded->first == 0x7F ||
-                                         (decoded->first >= 0x80 && decoded->first < 0xA0));
+        const std::uint32_t c = decoded ? decoded->first : 0;
+        const bool control = decoded && ((c < 0x20 && c != '\t' && c != '\n') || c == 0x7F || (c >= 0x80 && c < 0xA0));
         if (decoded && !control) {
             out += text.substr(0, decoded->second);
             text.remove_prefix(decoded->second);

@@ -478,6 +478,8 @@ TEST_CASE("errors: ngspice missing, a netlist ngspice rejects, a run that ends w
     auto rejected = mirrorcheck::test::run_cli("run rejected.cir", dir);
     CHECK(rejected.status == 2);
     CHECK(rejected.err.find("ngspice.failed") != std::string::npos);
+    // the end of its log, a line each (not escaped into one line)
+    CHECK(rejected.err.find("The end of its log:\n    ") != std::string::npos);
     CHECK(rejected.err.find("level") != std::string::npos);  // the end of ngspice's log names the cause
 
     // ngspice 39 recovered from every non-converging deck we tried (gmin and source stepping,

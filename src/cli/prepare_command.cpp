@@ -14,6 +14,8 @@
 #include "src/cli/netlist_limits_option.hpp"
 #include "src/cli/review_command.hpp"
 #include "src/cli/usage_errors.hpp"
+#include "src/cli/work_folder.hpp"
+#include "src/deck/child_process.hpp"
 #include "src/deck/ngspice_runner.hpp"
 #include "src/deck/review_deck.hpp"
 #include "src/model/circuit_build.hpp"
@@ -147,21 +149,16 @@ struct RunRequest {
     ReviewOptions review;
     std::string ngspice = "ngspice";
     std::string keep;
+    double timeout = 1800;  // seconds; 0: no limit
 };
-
-// A fresh folder under the system's temporary folder.
-fs::path temporary_folder() {
-    std::string pattern = (fs::temp_directory_path() / "mirrorcheck-run-XXXXXX").string();
-    if (!mkdtemp(pattern.data()))
-        throw usage::no_temporary_folder(fs::temp_directory_path().string());
-    return pattern;
-}
 
 int run_run(RunRequest r) {
     const DeckOptions options = deck_options(r.deck);
+    const std::chrono::seconds timeout = timeout_seconds(r.timeout);
     const bool keep = !r.keep.empty();
-    const fs::path folder = keep ? fs::absolute(r.keep).lexically_normal() : temporary_folder();
-    if (keep) fs::create_directories(folder);
+    // From here SIGINT, SIGTERM and SIGHUP end ngspice and unwind through the clean-up.
+    const StopSignals stop_guard;
+    const fs::path folder = claim_work_folder(r.keep, "run");
     struct Cleanup {
         fs::path folder;
         bool keep;
@@ -178,9 +175,11 @@ int run_run(RunRequest r) {
     call.deck = p.deck.path;
     call.log = folder / "ngspice.log";
     call.run_folder = p.deck.run_folder;
+    call.timeout = timeout;
     std::error_code ec;
     fs::remove(raw, ec);  // a kept folder's results of an earlier run
     run_ngspice_batch(call);
+    if (stop_signal() != 0) throw NgspiceStopped{stop_signal()};
     if (!fs::exists(raw)) throw ngspice_failure(call, "wrote no results");
     {
         auto headers = raw::read_raw(raw, raw::Selection{{}, true});
@@ -231,13 +230,20 @@ void add_run_command(CLI::App& app, int& status) {
         "prepare (the deck and its results in a temporary folder), then ngspice in batch mode\n"
         "in the netlist's own folder (where its relative paths resolve), then the review of the\n"
         "netlist with the deck's probes. The exit status is the review's (0 or 1), or 2 when\n"
-        "ngspice is missing, fails or does not converge; then the end of its log is printed.\n\n"
+        "ngspice is missing, fails, does not converge or runs past --timeout; then the end of\n"
+        "its log is printed. Ctrl-C, SIGTERM or SIGHUP end ngspice and remove the temporary\n"
+        "folder (the status is then 128 + the signal). A --keep folder must be new, empty, or\n"
+        "one an earlier `run --keep` wrote: nothing in it that mirrorcheck did not write is replaced.\n\n"
         "Examples:\n"
         "  mirrorcheck run samples/tamarack/bias.cir\n"
         "  mirrorcheck run amp.cir --keep amp_review --format json --ngspice /opt/ngspice/bin/ngspice");
     add_deck_options(*cmd, r->deck);
     cmd->add_option("--ngspice", r->ngspice, "the ngspice executable (default: ngspice on PATH)");
-    cmd->add_option("--keep", r->keep, "keep the deck, log and results in this folder");
+    cmd->add_option("--keep", r->keep,
+                    "keep the deck, log and results in this folder (a new or empty one, or one an earlier run "
+                    "--keep wrote)");
+    cmd->add_option("--timeout", r->timeout,
+                    "end ngspice when it runs longer than this many seconds (default 1800; 0: no limit)");
     add_judgement_options(*cmd, r->review);
     cmd->callback([r, &status] { status = run_run(*r); });
 }

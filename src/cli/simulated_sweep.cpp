@@ -3,16 +3,12 @@
 #include <atomic>
 #include <chrono>
 #include <mutex>
-#include <cerrno>
-#include <csignal>
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
 #include <iostream>
 #include <thread>
 
-#include <spawn.h>
-#include <sys/wait.h>
 #include <unistd.h>
 
 #include <fmt/format.h>
@@ -21,6 +17,8 @@
 #include "parsers/raw/raw.hpp"
 #include "src/analyse/pipeline.hpp"
 #include "src/cli/usage_errors.hpp"
+#include "src/cli/work_folder.hpp"
+#include "src/deck/child_process.hpp"
 #include "src/deck/ngspice_runner.hpp"
 #include "src/deck/review_deck.hpp"
 #include "src/deck/run_variant.hpp"
@@ -35,17 +33,6 @@ namespace {
 
 namespace fs = std::filesystem;
 
-fs::path work_folder(const std::string& keep) {
-    if (!keep.empty()) {
-        const fs::path folder = fs::absolute(keep).lexically_normal();
-        fs::create_directories(folder);
-        return folder;
-    }
-    std::string pattern = (fs::temp_directory_path() / "mirrorcheck-sweep-XXXXXX").string();
-    if (!mkdtemp(pattern.data())) throw usage::no_temporary_folder(fs::temp_directory_path().string());
-    return pattern;
-}
-
 // A run's deck, written into its own folder of the work folder.
 struct RunJob {
     std::string label;
@@ -53,23 +40,6 @@ struct RunJob {
     fs::path raw;
     std::string failure;  // set when the simulation failed
     bool not_run = false; // the sweep was interrupted first
-};
-
-// Set by Ctrl-C (SIGINT) during a local sweep: no further run starts.
-volatile std::sig_atomic_t interrupted = 0;
-extern "C" void note_interrupt(int) { interrupted = 1; }
-
-// Catches SIGINT while it lives, then puts back what was there.
-struct InterruptGuard {
-    struct sigaction previous {};
-    InterruptGuard() {
-        interrupted = 0;
-        struct sigaction a {};
-        a.sa_handler = note_interrupt;
-        sigemptyset(&a.sa_mask);
-        sigaction(SIGINT, &a, &previous);
-    }
-    ~InterruptGuard() { sigaction(SIGINT, &previous, nullptr); }
 };
 
 // A progress line on standard error, only when it is a terminal and once the runs have
@@ -95,24 +65,11 @@ private:
     std::chrono::steady_clock::time_point start_ = std::chrono::steady_clock::now();
 };
 
-// Runs `command` with /bin/sh and returns its exit status (128 + signal when killed).
-// Unlike std::system, the caller keeps its SIGINT handler meanwhile, so that Ctrl-C stops
-// the sweep between runs.
-int run_shell(const std::string& command) {
-    const char* argv[] = {"sh", "-c", command.c_str(), nullptr};
-    pid_t pid = 0;
-    if (posix_spawn(&pid, "/bin/sh", nullptr, nullptr, const_cast<char* const*>(argv), environ) != 0) return 127;
-    int raw = 0;
-    while (waitpid(pid, &raw, 0) < 0)
-        if (errno != EINTR) return -1;
-    return WIFEXITED(raw) ? WEXITSTATUS(raw) : 128 + WTERMSIG(raw);
-}
-
 class SimulatedSweep {
 public:
     SimulatedSweep(const ReviewOptions& review, const SimulationRequest& request)
         : review_(review), request_(request), netlist_(netlist::read_netlist(review.netlist, review.limits)),
-          circuit_(build_circuit(netlist_)), folder_(work_folder(request.keep)) {}
+          circuit_(build_circuit(netlist_)), folder_(claim_work_folder(request.keep, "sweep")) {}
 
     ~SimulatedSweep() {
         std::error_code ec;
@@ -120,6 +77,7 @@ public:
     }
 
     std::vector<sweep::RunRecord> run() {
+        const StopSignals guard;  // Ctrl-C, SIGTERM, SIGHUP: no further run starts, the running ones end
         const auto planned = sweep::plan_runs(request_.axes);
         const Recognition deck_recognition = recognise_circuit(circuit_);
         std::vector<RunJob> jobs;
@@ -139,14 +97,14 @@ public:
                 corner_line = find_corner_line(deck.text, request_.axes.corners, review_.netlist);
             deck.text = write_run_variant(deck.text, planned[k].variant, corner_line.value_or(0));
             save_review_deck(deck);
-            NgspiceCall call{request_.ngspice, deck.path, dir / "ngspice.log", deck.run_folder};
+            NgspiceCall call{request_.ngspice, deck.path, dir / "ngspice.log", deck.run_folder, request_.timeout};
             std::error_code ec;
             fs::remove(options.raw_path, ec);  // a kept folder's results of an earlier sweep
             jobs.push_back({planned[k].label, call, options.raw_path, {}});
         }
-        const InterruptGuard guard;
         simulate(jobs);
-        const bool stopped = interrupted != 0;
+        const int signal = stop_signal();
+        const bool stopped = signal != 0;
         const Recognition recognition = recognise_circuit(probed);
         const ReviewSettings settings = review_settings(review_);
         std::vector<sweep::RunRecord> records;
@@ -158,7 +116,7 @@ public:
         }
         if (stopped) {
             keep_folder_ = true;
-            throw SweepInterrupted{fmt::format(
+            throw SweepInterrupted{signal, fmt::format(
                 "interrupted: {} of {} runs finished; their reports are in {}\n"
                 "their statistics: cd {} && mirrorcheck merge $(find * -name '*.json')\n",
                 finished, jobs.size(), (folder_ / "reports").string(), quoted((folder_ / "reports").string()))};
@@ -218,8 +176,13 @@ private:
             command = fmt::format("sbatch --wait --array=1-{}{} {} > {} 2>&1", jobs.size(), options,
                                   quoted(script.string()), quoted((folder_ / "sbatch.log").string()));
         }
-        const int raw = std::system(command.c_str());
-        const int status = raw == -1 ? -1 : WIFEXITED(raw) ? WEXITSTATUS(raw) : 128 + WTERMSIG(raw);
+        // No time limit here: the scheduler's own (parallel --timeout, sbatch --time) apply.
+        const ChildOutcome outcome = run_child(command, std::chrono::seconds(0));
+        if (outcome.end == ChildOutcome::End::stopped) {
+            for (RunJob& job : jobs) job.not_run = true;
+            return;
+        }
+        const int status = outcome.status;
         if (status == 127 || status == 126 || (request_.engine == "slurm" && status != 0 && !any_status(jobs)))
             throw usage::engine_failed(request_.engine, command, status);
         for (RunJob& job : jobs) {
@@ -259,16 +222,17 @@ private:
         Progress progress(jobs.size());
         const auto worker = [&] {
             for (std::size_t k; (k = next++) < jobs.size();) {
-                if (interrupted) {
+                if (stop_signal() != 0) {
                     jobs[k].not_run = true;
                     continue;
                 }
                 try {
-                    check_ngspice_run(jobs[k].call, run_shell(ngspice_command(jobs[k].call)));
+                    run_ngspice_batch(jobs[k].call);
                     if (!fs::exists(jobs[k].raw)) throw ngspice_failure(jobs[k].call, "wrote no results");
+                } catch (const NgspiceStopped&) {
+                    jobs[k].not_run = true;  // ended by the stop signal
                 } catch (const InputError& e) {
                     jobs[k].failure = e.where().to_string() + ": " + e.message();
-                    if (interrupted) jobs[k].not_run = true;  // Ctrl-C reached ngspice too
                 }
                 progress.done_one();
             }

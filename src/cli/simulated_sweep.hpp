@@ -3,6 +3,7 @@
 // folder (never beside the user's files), then each run reviewed.
 #pragma once
 
+#include <chrono>
 #include <string>
 #include <vector>
 
@@ -19,11 +20,13 @@ struct SimulationRequest {
     std::string ngspice = "ngspice";
     std::string engine = "local";             // local, parallel (GNU parallel) or slurm (sbatch --array)
     std::vector<std::string> engine_options;  // words passed to parallel or sbatch, e.g. --sshlogin=host
+    std::chrono::seconds timeout{0};          // local runs: ngspice ended after this; 0: no limit
 };
 
-// Thrown when Ctrl-C stopped the sweep: what to tell the user (where the finished runs'
-// reports are, how to merge them).
+// Thrown when Ctrl-C (or SIGTERM, SIGHUP) stopped the sweep: the signal, and what to tell
+// the user (where the finished runs' reports are, how to merge them).
 struct SweepInterrupted {
+    int signal;
     std::string message;
 };
 

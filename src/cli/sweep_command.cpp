@@ -19,6 +19,7 @@
 #include "src/cli/simulated_sweep.hpp"
 #include "src/cli/terminal.hpp"
 #include "src/cli/usage_errors.hpp"
+#include "src/cli/work_folder.hpp"
 #include "src/model/circuit_build.hpp"
 #include "src/model/op_point_build.hpp"
 #include "src/model/simulation_plots_build.hpp"
@@ -46,6 +47,7 @@ struct SweepOptions {
     std::size_t monte_carlo = 0;
     unsigned long seed = 1;
     std::size_t jobs = 0;  // 0: the machine's cores
+    double timeout = 1800; // seconds a local run may take; 0: no limit
     std::string keep, ngspice = "ngspice";
     std::string engine = "local";
     std::vector<std::string> engine_options;
@@ -106,6 +108,7 @@ std::vector<sweep::RunRecord> simulated_records(const SweepOptions& o) {
     request.ngspice = o.ngspice;
     request.engine = o.engine;
     request.engine_options = o.engine_options;
+    request.timeout = timeout_seconds(o.timeout);
     return simulate_and_review(o.review, request);
 }
 
@@ -236,7 +239,7 @@ int sweep_and_report(const SweepOptions& o) {
             records = simulated_records(o);
         } catch (const SweepInterrupted& stop) {
             std::cerr << stop.message;
-            return exit_interrupted;
+            return 128 + stop.signal;
         }
     } else {
         const Circuit circuit = read_circuit(o.review.netlist, o.review.limits);
@@ -293,6 +296,9 @@ void add_sweep_command(CLI::App& app, int& status) {
     cmd->add_option("--seed", o->seed, "the first Monte Carlo draw's seed (default 1; draw k uses seed + k - 1)");
     cmd->add_option("--param", o->params, "NAME=VALUE: a .param for every run, e.g. a PDK's statistical switch (repeatable)");
     cmd->add_option("--jobs", o->jobs, "ngspice processes at once (default: the machine's cores)");
+    cmd->add_option("--timeout", o->timeout,
+                    "end a local run's ngspice after this many seconds; the run counts as failed (default 1800; "
+                    "0: no limit)");
     cmd->add_option("--keep", o->keep, "keep every run's deck, ngspice log and results in this folder");
     cmd->add_option("--ngspice", o->ngspice, "the ngspice executable (default: ngspice on PATH)");
     cmd->add_option("--engine", o->engine,

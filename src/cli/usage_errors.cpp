@@ -93,6 +93,22 @@ InputError no_temporary_folder(const std::string& where) {
     return {"usage.temporary-folder", Location(where), "cannot create a temporary folder"};
 }
 
+InputError keep_not_folder(const std::string& keep) {
+    return {"usage.keep", Location(keep), "--keep needs a folder, and this is a file; name a new or empty folder"};
+}
+
+InputError keep_not_ours(const std::string& keep, const std::string& marker) {
+    return {"usage.keep", Location(keep),
+            fmt::format("--keep would write into a folder that holds files mirrorcheck did not write (it has no {}); "
+                        "name a new or empty folder, so that nothing of yours is replaced",
+                        marker)};
+}
+
+InputError bad_timeout(double seconds) {
+    return {"usage.timeout", Location("--timeout"),
+            fmt::format("--timeout {} is not a time limit: give seconds, 0 or more (0: no limit)", seconds)};
+}
+
 InputError cannot_write(const std::string& path) {
     return {"usage.cannot-write", Location(path), "cannot write this file"};
 }

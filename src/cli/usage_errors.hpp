@@ -21,6 +21,11 @@ InputError sweep_not_upwards(const std::string& from, const std::string& to);
 InputError would_overwrite_input(const std::string& output, const std::string& input);
 InputError copy_would_overwrite_input(const std::string& copy);
 InputError no_temporary_folder(const std::string& where);
+// `--keep DIR` naming a file, or a folder that holds files mirrorcheck did not write.
+InputError keep_not_folder(const std::string& keep);
+InputError keep_not_ours(const std::string& keep, const std::string& marker);
+// `--timeout` negative or not finite.
+InputError bad_timeout(double seconds);
 // An option value that is NaN or infinite (`--margin nanV`).
 InputError not_finite_quantity(const std::string& option, const std::string& text);
 // `--probe NODE=SOURCE` naming a node or source the netlist lacks.

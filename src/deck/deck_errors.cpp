@@ -23,6 +23,14 @@ InputError ngspice_no_convergence(const std::string& log_path, const std::string
                         log_tail)};
 }
 
+InputError ngspice_timed_out(const std::string& log_path, long seconds, const std::string& deck_name,
+                             const std::string& log_tail) {
+    return {"ngspice.timeout", Location(log_path),
+            fmt::format("ngspice ran longer than {} s on {} and was stopped; give --timeout more time (0: no "
+                        "limit) or look at why it is slow. The end of its log:{}",
+                        seconds, deck_name, log_tail)};
+}
+
 InputError ngspice_failed(const std::string& log_path, const std::string& what, const std::string& deck_name,
                           const std::string& log_tail) {
     return {"ngspice.failed", Location(log_path),

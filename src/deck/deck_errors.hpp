@@ -12,6 +12,8 @@ namespace mirrorcheck::errors {
 InputError deck_not_writable(const std::string& deck_path);
 InputError ngspice_missing(const std::string& executable, const std::string& log_tail);
 InputError ngspice_no_convergence(const std::string& log_path, const std::string& log_tail);
+InputError ngspice_timed_out(const std::string& log_path, long seconds, const std::string& deck_name,
+                             const std::string& log_tail);
 InputError ngspice_failed(const std::string& log_path, const std::string& what, const std::string& deck_name,
                           const std::string& log_tail);
 InputError card_in_library(const Location& where, std::string_view keyword);

@@ -1,14 +1,13 @@
 // Runs ngspice in batch mode in a given folder and reads the end of its log on failure.
 #include "src/deck/ngspice_runner.hpp"
 
+#include "src/deck/child_process.hpp"
 #include "src/deck/deck_errors.hpp"
 
 #include <cstdlib>
 #include <fstream>
 #include <sstream>
 #include <vector>
-
-#include <sys/wait.h>
 
 #include <fmt/format.h>
 
@@ -59,8 +58,12 @@ std::string ngspice_command(const NgspiceCall& call) {
 }
 
 void run_ngspice_batch(const NgspiceCall& call) {
-    const int raw = std::system(ngspice_command(call).c_str());
-    check_ngspice_run(call, raw == -1 ? -1 : WIFEXITED(raw) ? WEXITSTATUS(raw) : 128 + WTERMSIG(raw));
+    const ChildOutcome outcome = run_child(ngspice_command(call), call.timeout);
+    if (outcome.end == ChildOutcome::End::stopped) throw NgspiceStopped{stop_signal()};
+    if (outcome.end == ChildOutcome::End::timed_out)
+        throw errors::ngspice_timed_out(call.log.string(), static_cast<long>(call.timeout.count()), call.deck.string(),
+                                        tail(read_all(call.log), 12));
+    check_ngspice_run(call, outcome.status);
 }
 
 void check_ngspice_run(const NgspiceCall& call, int status) {

@@ -2,6 +2,7 @@
 // failed, or did not converge.
 #pragma once
 
+#include <chrono>
 #include <filesystem>
 #include <string>
 
@@ -14,11 +15,20 @@ struct NgspiceCall {
     std::filesystem::path deck;          // absolute
     std::filesystem::path log;           // absolute: ngspice's stdout and stderr
     std::filesystem::path run_folder;    // ngspice's working folder (the user's deck folder)
+    std::chrono::seconds timeout{0};     // run_ngspice_batch ends a run that takes longer; 0: no limit
 };
 
-// Runs `executable -b deck` in run_folder, its output going to log. Throws InputError with
-// code "ngspice.missing" (the executable could not be started), "ngspice.failed" (non-zero
-// exit status or an error in its log) or "ngspice.no-convergence", each with the end of the log.
+// What run_ngspice_batch throws when a stop signal (see child_process.hpp) ended the run:
+// not an input error; the command ends with status 128 + signal after its clean-up.
+struct NgspiceStopped {
+    int signal;
+};
+
+// Runs `executable -b deck` in run_folder, its output going to log, in a process group of
+// its own (child_process.hpp). Throws InputError with code "ngspice.missing" (the
+// executable could not be started), "ngspice.failed" (non-zero exit status or an error in
+// its log), "ngspice.no-convergence" or "ngspice.timeout" (ended after call.timeout), each
+// with the end of the log; NgspiceStopped when a stop signal ended it.
 void run_ngspice_batch(const NgspiceCall& call);
 
 // The shell command run_ngspice_batch runs, for a scheduler to run instead (GNU parallel,

@@ -1,0 +1,40 @@
+#include "src/cli/work_folder.hpp"
+
+#include <cmath>
+#include <fstream>
+
+#include <fmt/format.h>
+#include <stdlib.h>
+
+#include "src/cli/usage_errors.hpp"
+
+namespace mirrorcheck::cli {
+
+namespace fs = std::filesystem;
+
+fs::path claim_work_folder(const std::string& keep, std::string_view command) {
+    if (keep.empty()) {
+        std::string pattern = (fs::temp_directory_path() / fmt::format("mirrorcheck-{}-XXXXXX", command)).string();
+        if (!mkdtemp(pattern.data())) throw usage::no_temporary_folder(fs::temp_directory_path().string());
+        return pattern;
+    }
+    const fs::path folder = fs::absolute(keep).lexically_normal();
+    std::error_code ec;
+    const auto status = fs::status(folder, ec);
+    if (fs::exists(status) && !fs::is_directory(status)) throw usage::keep_not_folder(keep);
+    const fs::path marker = folder / work_folder_marker;
+    if (fs::exists(status) && !fs::exists(marker) && !fs::is_empty(folder, ec))
+        throw usage::keep_not_ours(keep, std::string(work_folder_marker));
+    fs::create_directories(folder, ec);
+    std::ofstream out(marker, std::ios::binary | std::ios::trunc);
+    out << fmt::format("mirrorcheck {} --keep wrote this folder; the next one may replace its files\n", command);
+    if (ec || !out) throw usage::no_temporary_folder(folder.string());
+    return folder;
+}
+
+std::chrono::seconds timeout_seconds(double seconds) {
+    if (!std::isfinite(seconds) || seconds < 0 || seconds > 1e9) throw usage::bad_timeout(seconds);
+    return std::chrono::seconds(static_cast<long long>(std::ceil(seconds)));
+}
+
+}  // namespace mirrorcheck::cli

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdlib>
 #include <string>
 
 #include <fmt/format.h>
@@ -15,8 +16,10 @@ std::string format_si(double value, std::string_view unit) {
     int exponent = static_cast<int>(std::floor(std::log10(std::fabs(value)) / 3.0));
     exponent = std::clamp(exponent, -5, 4);
     double scaled = value / std::pow(10.0, 3 * exponent);
-    // Rounding to three digits can carry into the next prefix (999.7 m -> 1 unit).
-    if (std::fabs(std::stod(fmt::format("{:.3g}", scaled))) >= 1000.0 && exponent < 4) {
+    // Rounding to three digits can carry into the next prefix (999.7 m -> 1 unit). strtod,
+    // not stod: a subnormal value (below 1e-308 after scaling) is no error (found by fuzzing).
+    const std::string rounded = fmt::format("{:.3g}", scaled);
+    if (std::fabs(std::strtod(rounded.c_str(), nullptr)) >= 1000.0 && exponent < 4) {
         ++exponent;
         scaled /= 1000.0;
     }

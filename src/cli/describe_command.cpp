@@ -1,6 +1,6 @@
 #include "src/cli/describe_command.hpp"
 
-#include <fstream>
+#include <sstream>
 #include <iostream>
 #include <memory>
 #include <string>
@@ -9,6 +9,7 @@
 #include "src/cli/cli_outline.hpp"
 #include "src/cli/man_page.hpp"
 #include "src/cli/usage_errors.hpp"
+#include "src/output/write_file.hpp"
 
 namespace mirrorcheck::cli {
 namespace {
@@ -20,16 +21,14 @@ struct DescribeRequest {
 
 int describe(const CLI::App& app, const DescribeRequest& r) {
     const CliOutline outline = outline_command_line(app);
-    std::ofstream file;
-    if (!r.output.empty()) {
-        file.open(r.output, std::ios::binary | std::ios::trunc);
-        if (!file) throw usage::cannot_write(r.output);
+    std::ostringstream text;
+    if (r.what == "man") write_man_page(outline, text);
+    else write_bash_completion(outline, text);
+    if (r.output.empty()) {
+        std::cout << text.str();
+    } else if (auto failed = write_file_whole(r.output, text.str())) {
+        throw usage::cannot_write(r.output, *failed);
     }
-    std::ostream& out = r.output.empty() ? std::cout : file;
-    if (r.what == "man") write_man_page(outline, out);
-    else write_bash_completion(outline, out);
-    out.flush();
-    if (!out) throw usage::cannot_write(r.output.empty() ? "standard output" : r.output);
     return 0;
 }
 

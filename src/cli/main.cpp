@@ -15,6 +15,8 @@
 #include "src/cli/prepare_command.hpp"
 #include "src/cli/review_command.hpp"
 #include "src/cli/sweep_command.hpp"
+#include "src/cli/usage_errors.hpp"
+#include "src/output/write_file.hpp"
 
 int main(int argc, char** argv) {
     using namespace mirrorcheck::cli;
@@ -36,7 +38,7 @@ int main(int argc, char** argv) {
     add_sweep_command(app, status);
     add_merge_command(app, status);
     add_describe_command(app, status);  // hidden: the man page and completion, from everything above
-    return run_guarded(
+    const int status_of_command = run_guarded(
         [&] {
             try {
                 app.parse(argc, argv);
@@ -49,4 +51,11 @@ int main(int argc, char** argv) {
             return status;
         },
         std::cerr);
+    // A report that did not all reach its destination (a redirection to a full disk) is
+    // no report: status 2, not the review's 0 or 1.
+    if (auto failed = mirrorcheck::flush_standard_output()) {
+        std::cerr << usage::cannot_write("standard output", *failed).what() << "\n";
+        return exit_bad_input;
+    }
+    return status_of_command;
 }

@@ -7,6 +7,7 @@
 #include <filesystem>
 #include <fstream>
 #include <iostream>
+#include <sstream>
 #include <thread>
 
 #include <unistd.h>
@@ -19,6 +20,7 @@
 #include "src/cli/usage_errors.hpp"
 #include "src/cli/work_folder.hpp"
 #include "src/deck/child_process.hpp"
+#include "src/output/write_file.hpp"
 #include "src/deck/ngspice_runner.hpp"
 #include "src/deck/review_deck.hpp"
 #include "src/deck/run_variant.hpp"
@@ -211,9 +213,7 @@ private:
     }
 
     static void write_file(const fs::path& path, const std::string& text) {
-        std::ofstream out(path, std::ios::binary);
-        out << text;
-        if (!out) throw usage::no_temporary_folder(path.string());
+        if (auto failed = write_file_whole(path, text)) throw usage::cannot_write(path.string(), *failed);
     }
 
     // Runs the jobs, request_.jobs at a time; a failure is kept with its job.
@@ -262,8 +262,10 @@ private:
             if (save) {
                 const fs::path report = folder_ / "reports" / (job.label + ".json");
                 fs::create_directories(report.parent_path());
-                std::ofstream out(report, std::ios::binary);
-                report::write_review_json(tree, out);
+                // Whole or not at all: `merge` over an interrupted sweep's reports reads each one.
+                std::ostringstream text;
+                report::write_review_json(tree, text);
+                write_file(report, text.str());
             }
             return sweep::record_from_review(tree, job.label, origin);
         } catch (const InputError& e) {

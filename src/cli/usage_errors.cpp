@@ -109,8 +109,9 @@ InputError bad_timeout(double seconds) {
             fmt::format("--timeout {} is not a time limit: give seconds, 0 or more (0: no limit)", seconds)};
 }
 
-InputError cannot_write(const std::string& path) {
-    return {"usage.cannot-write", Location(path), "cannot write this file"};
+InputError cannot_write(const std::string& path, const std::string& reason) {
+    return {"usage.cannot-write", Location(path),
+            fmt::format("cannot write {}: {}", path == "standard output" ? "the output" : "this file", reason)};
 }
 
 InputError min_yield_above_one(const std::string& text) {

@@ -30,7 +30,8 @@ InputError bad_timeout(double seconds);
 InputError not_finite_quantity(const std::string& option, const std::string& text);
 // `--probe NODE=SOURCE` naming a node or source the netlist lacks.
 InputError probe_names_nothing(const std::string& probe, const std::string& what, const std::string& name);
-InputError cannot_write(const std::string& path);
+// An output file, or standard output ("standard output"), that could not be written whole.
+InputError cannot_write(const std::string& path, const std::string& reason);
 // --min-yield above 100 %.
 InputError min_yield_above_one(const std::string& text);
 // `sweep`: --supply not NAME=V,V...; a --temps value not a number of °C; --param not NAME=VALUE.

@@ -1,12 +1,12 @@
 #include "src/cli/work_folder.hpp"
 
 #include <cmath>
-#include <fstream>
 
 #include <fmt/format.h>
 #include <stdlib.h>
 
 #include "src/cli/usage_errors.hpp"
+#include "src/output/write_file.hpp"
 
 namespace mirrorcheck::cli {
 
@@ -26,9 +26,10 @@ fs::path claim_work_folder(const std::string& keep, std::string_view command) {
     if (fs::exists(status) && !fs::exists(marker) && !fs::is_empty(folder, ec))
         throw usage::keep_not_ours(keep, std::string(work_folder_marker));
     fs::create_directories(folder, ec);
-    std::ofstream out(marker, std::ios::binary | std::ios::trunc);
-    out << fmt::format("mirrorcheck {} --keep wrote this folder; the next one may replace its files\n", command);
-    if (ec || !out) throw usage::no_temporary_folder(folder.string());
+    if (ec) throw usage::no_temporary_folder(folder.string());
+    if (auto failed = write_file_whole(
+            marker, fmt::format("mirrorcheck {} --keep wrote this folder; the next one may replace its files\n", command)))
+        throw usage::cannot_write(marker.string(), *failed);
     return folder;
 }
 

@@ -45,8 +45,8 @@ InputError card_in_library(const Location& where, std::string_view keyword) {
                         keyword)};
 }
 
-InputError cannot_write(const Location& where, std::string_view what) {
-    return {"prepare.cannot-write", where, fmt::format("cannot write {} here", what)};
+InputError cannot_write(const Location& where, std::string_view what, std::string_view reason) {
+    return {"prepare.cannot-write", where, fmt::format("cannot write {} here: {}", what, reason)};
 }
 
 InputError no_corner_lib(const std::string& deck_path) {

@@ -17,7 +17,7 @@ InputError ngspice_timed_out(const std::string& log_path, long seconds, const st
 InputError ngspice_failed(const std::string& log_path, const std::string& what, const std::string& deck_name,
                           const std::string& log_tail);
 InputError card_in_library(const Location& where, std::string_view keyword);
-InputError cannot_write(const Location& where, std::string_view what);
+InputError cannot_write(const Location& where, std::string_view what, std::string_view reason);
 // `sweep --corners`: a deck with no `.lib FILE SECTION` line; a library without that section.
 InputError no_corner_lib(const std::string& deck_path);
 InputError unknown_corner(const std::string& library, const std::string& corner, const std::string& sections);

@@ -33,10 +33,7 @@
 // OTHER outputs do during a run (held at AC ground, or left as they are).
 #include "src/deck/review_deck.hpp"
 
-#include "src/deck/deck_errors.hpp"
-
 #include <algorithm>
-#include <fstream>
 #include <set>
 
 #include <fmt/format.h>
@@ -46,6 +43,7 @@
 #include "src/deck/deck_errors.hpp"
 #include "src/deck/deck_names.hpp"
 #include "src/model/op_point_build.hpp"
+#include "src/output/write_file.hpp"
 
 namespace mirrorcheck {
 namespace {
@@ -190,9 +188,8 @@ ReviewDeck write_review_deck(const netlist::FlatNetlist& netlist, const Circuit&
 
 void save_review_deck(const ReviewDeck& deck) {
     auto write = [](const fs::path& path, const std::string& text) {
-        std::ofstream out(path, std::ios::binary);
-        out << text;
-        if (!out) throw errors::cannot_write(Location(path.string()), "the review deck");
+        if (auto failed = write_file_whole(path, text))
+            throw errors::cannot_write(Location(path.string()), "the review deck", *failed);
     };
     std::error_code ec;
     fs::create_directories(deck.path.parent_path(), ec);

@@ -8,6 +8,7 @@
 #include "src/report/json_text.hpp"
 #include "src/recognise/find_mirrors.hpp"
 #include "src/report/mirror_list.hpp"
+#include "src/report/text_layout.hpp"
 
 namespace mirrorcheck::cli {
 namespace {
@@ -22,7 +23,7 @@ int run_list(const ListOptions& o) {
     Circuit circuit = read_circuit(o.netlist, o.limits);
     std::vector<Mirror> mirrors = find_mirrors(circuit);
     if (o.format == "json") std::cout << report::json_text(report::mirrors_to_json(circuit, mirrors)) << "\n";
-    else std::cout << report::write_mirror_table(circuit, mirrors);
+    else std::cout << report::terminal_text(report::write_mirror_table(circuit, mirrors), false);
     return 0;
 }
 

@@ -13,6 +13,7 @@
 #include "src/report/circuit_dump.hpp"
 #include "src/report/listing_dump.hpp"
 #include "src/report/raw_dump.hpp"
+#include "src/report/text_layout.hpp"
 
 namespace mirrorcheck::cli {
 namespace {
@@ -38,22 +39,22 @@ void peek_raw(const PeekOptions& o) {
     raw::RawFile file = raw::read_raw(o.file, selection);
     check_vectors_exist(file, o.vectors);
     if (o.format == "json") std::cout << report::json_text(report::raw_to_json(file, o.vectors)) << "\n";
-    else if (!o.vectors.empty()) std::cout << report::write_raw_vectors(file, o.vectors);
-    else std::cout << report::write_raw_table(file, o.plots);
+    else if (!o.vectors.empty()) std::cout << report::terminal_text(report::write_raw_vectors(file, o.vectors), false);
+    else std::cout << report::terminal_text(report::write_raw_table(file, o.plots), false);
 }
 
 void peek_listing(const PeekOptions& o) {
     if (!o.vectors.empty() || !o.plots.empty()) throw usage::option_needs_raw(o.file);
     listing::Listing l = listing::read_listing(o.file);
     if (o.format == "json") std::cout << report::json_text(report::listing_to_json(l)) << "\n";
-    else std::cout << report::write_listing_table(l);
+    else std::cout << report::terminal_text(report::write_listing_table(l), false);
 }
 
 void peek_netlist(const PeekOptions& o) {
     if (!o.vectors.empty() || !o.plots.empty()) throw usage::option_needs_raw(o.file);
     Circuit circuit = read_circuit(o.file, o.limits);
     if (o.format == "json") std::cout << report::json_text(report::circuit_to_json(circuit)) << "\n";
-    else std::cout << report::write_circuit_table(circuit);
+    else std::cout << report::terminal_text(report::write_circuit_table(circuit), false);
 }
 
 int run_peek(const PeekOptions& o) {

@@ -117,7 +117,7 @@ void write_sweep(Format format, const sweep::SweepResult& result, const SweepInp
                  const TableStyle& style) {
     switch (format) {
         case Format::table:
-            out << write_sweep_table(result, inputs, style);
+            out << terminal_text(write_sweep_table(result, inputs, style), style.colour);
             break;
         case Format::json:
             out << json_text(sweep_to_json(result, inputs)) << "\n";

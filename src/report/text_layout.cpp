@@ -1,6 +1,9 @@
 #include "src/report/text_layout.hpp"
 
+#include <cctype>
 #include <vector>
+
+#include "parsers/common/utf8.hpp"
 
 namespace mirrorcheck::report {
 
@@ -85,6 +88,24 @@ std::string coloured(std::string_view text, Colour colour, bool enabled) {
         case Colour::none: break;
     }
     return std::string(code) + std::string(text) + "\x1b[0m";
+}
+
+std::string terminal_text(std::string_view text, bool colour) {
+    std::string out;
+    out.reserve(text.size());
+    std::size_t plain = 0;  // start of the text not yet copied
+    for (std::size_t k = 0; colour && (k = text.find("\x1b[", k)) != std::string_view::npos;) {
+        std::size_t end = k + 2;
+        while (end < text.size() && (std::isdigit(static_cast<unsigned char>(text[end])) || text[end] == ';')) ++end;
+        if (end < text.size() && text[end] == 'm') {
+            out += printable_text(text.substr(plain, k - plain));
+            out += text.substr(k, end + 1 - k);
+            plain = end + 1;
+        }
+        k = end;
+    }
+    out += printable_text(text.substr(plain));
+    return out;
 }
 
 }  // namespace mirrorcheck::report

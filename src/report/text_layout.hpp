@@ -26,4 +26,9 @@ enum class Colour { none, red, yellow, green, dim, bold };
 // `text` in that colour when `enabled`, else as it is.
 std::string coloured(std::string_view text, Colour colour, bool enabled);
 
+// A whole table as it may reach a terminal: names from the input that are not UTF-8 or
+// hold control bytes (a hostile netlist's escape sequences) written as `\xNN`
+// (printable_text); with `colour`, the SGR colour codes `coloured` adds are kept.
+std::string terminal_text(std::string_view text, bool colour);
+
 }  // namespace mirrorcheck::report

@@ -1,6 +1,7 @@
 // Picks the back end for a review.
 #include "src/report/junit_report.hpp"
 #include "src/report/review_report.hpp"
+#include "src/report/text_layout.hpp"
 
 namespace mirrorcheck::report {
 
@@ -14,7 +15,7 @@ std::optional<Format> parse_format(std::string_view name) {
 void write_review(Format format, const ReviewTree& tree, std::ostream& out, const TableStyle& style) {
     switch (format) {
         case Format::table:
-            out << write_review_table(tree, style);
+            out << terminal_text(write_review_table(tree, style), style.colour);
             break;
         case Format::json:
             write_review_json(tree, out);

@@ -122,3 +122,19 @@ TEST_CASE("peek and list --format json of a netlist whose names are not UTF-8: U
         CHECK(j["title"] == "{a}\xEF\xBF\xBD");
     }
 }
+
+// Names with a byte that is not UTF-8 (0xFF) and a terminal escape (ESC c resets the
+// terminal): the tables show them as \xNN, so a terminal or CI log is not garbled.
+TEST_CASE("peek and list tables escape names that are not UTF-8 or hold control bytes") {
+    for (const std::string command : {"peek ", "list "}) {
+        CAPTURE(command);
+        Result r = mirrorcheck::test::run_cli(command + data("netlist/names_not_utf8.cir"));
+        CHECK(r.status == 0);
+        CHECK(r.out.find('\xff') == std::string::npos);
+        CHECK(r.out.find('\x1b') == std::string::npos);
+        if (command == "peek ") {
+            CHECK(r.out.find("d\\xff") != std::string::npos);
+            CHECK(r.out.find("o\\x1bc") != std::string::npos);
+        }
+    }
+}

@@ -135,3 +135,11 @@ TEST_CASE("what the op data's reader noted reaches the tree, the table and JSON"
     CHECK(report::write_review_table(tree).find("note: " + op.notes.front()) != std::string::npos);
     CHECK(report::review_to_json(tree)["notes"][0] == op.notes.front());
 }
+
+TEST_CASE("terminal_text escapes what the input put there and keeps the colour the table added") {
+    using mirrorcheck::report::terminal_text;
+    const std::string red = mirrorcheck::report::coloured("FAIL", mirrorcheck::report::Colour::red, true);
+    CHECK(terminal_text(red + " m\xff\x1b" "c\n", true) == red + " m\\xff\\x1bc\n");
+    CHECK(terminal_text(red, false).find('\x1b') == std::string::npos);  // no colour asked: none passes
+    CHECK(terminal_text("plain 24.5 MΩ\tok\n", true) == "plain 24.5 MΩ\tok\n");
+}

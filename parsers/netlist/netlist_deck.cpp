@@ -333,7 +333,9 @@ private:
         }
         def->defaults = split_parts(line, tokens, i).named;
         SubcktDef* raw = def.get();
-        current().subckts[def->name] = std::move(def);
+        SubcktDef& scope = current();
+        if (scope.subckts.count(raw->name)) scope.ignored_subckts.push_back(std::move(def));
+        else scope.subckts[raw->name] = std::move(def);
         stack_.push_back(raw);
     }
 
@@ -346,6 +348,12 @@ private:
         if (tokens.size() < 3 || tokens[1].kind != TokenKind::word || tokens[2].kind != TokenKind::word)
             throw errors::netlist_syntax(line.locate(tokens.size() > 1 ? tokens.back().end : line.text.size()),
                                          "`.model name type (parameters)`", "");
+        // `.model nch vto=0.5`: a parameter where the type belongs (ngspice: "Unknown model
+        // type vto - ignored", and every device of the model then fails).
+        if (tokens.size() > 3 && tokens[3].is('='))
+            throw errors::netlist_syntax(line.locate(tokens[2].offset),
+                                         "a model type (nmos, pmos, npn, pnp, d, ...) after the model name",
+                                         std::string(tokens[2].text) + "=");
         ModelCard card;
         card.name = to_lower(tokens[1].text);
         card.type = to_lower(tokens[2].text);

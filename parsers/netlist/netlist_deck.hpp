@@ -62,6 +62,10 @@ struct SubcktDef {
     std::vector<FunctionDef> functions;  // .func lines in the body
     std::vector<const LogicalLine*> elements;
     std::unordered_map<std::string, std::unique_ptr<SubcktDef>> subckts;
+    // Later definitions of a name already in `subckts`: read (their lines must still be
+    // well formed) and kept here unused, since ngspice uses the first ("redefinition of
+    // .subckt s, ignored").
+    std::vector<std::unique_ptr<SubcktDef>> ignored_subckts;
     std::unordered_map<std::string, ModelCard> models;
     std::unordered_map<std::string, std::vector<std::string>> bins;  // "nch" -> {"nch.1", "nch.2"}
     const SubcktDef* parent = nullptr;

@@ -85,6 +85,8 @@ const std::vector<Malformed> catalogue = {
     {"continuation without a line", "t\n+ R1 a b 1\n", "netlist.stray-continuation", 2, 1, "must follow"},
     {"element of an unknown kind", "t\nP1 a b\n", "netlist.unsupported", 2, 1, "element `p1`"},
     {"device defined twice", "t\nR1 a b 1\nr1 c d 2\n", "netlist.duplicate-device", 3, 1, "`r1` is defined twice"},
+    {"model without its type (a parameter in its place)", "t\n.model nch vto=0.5\nM1 d d 0 0 nch\n", "netlist.syntax", 2,
+     12, "a model type"},
     {"line that is neither element nor statement", "t\n1R a b\n", "netlist.syntax", 2, 1, "an element name"},
     {".control without .endc", "t\n.control\nop\n", "netlist.unterminated", 2, 1, "expected `.endc`"},
     {"missing value after =", "t\nM1 d g s b nch w=\n.model nch nmos\n", "netlist.syntax", 2, 18, "a value after `w=`"},
@@ -293,4 +295,21 @@ TEST_CASE("an include of a named pipe is refused at once, not waited on for a wr
         CHECK(e.where().line == 2);
         CHECK(e.message().find("not a regular file") != std::string::npos);
     }
+}
+
+TEST_CASE("a subcircuit defined twice: the first definition counts, as in ngspice") {
+    // ngspice (checked here by running it) warns "redefinition of .subckt s, ignored" and
+    // simulates the first definition: 1 V across 1 kΩ, not 2 kΩ.
+    const std::string deck = "t\n.subckt s a\nr1 a 0 1k\n.ends\n.subckt s a\nr1 a 0 2k\n.ends\nx1 n s\nv1 n 0 1\n";
+    Decks decks;
+    const auto netlist = mirrorcheck::netlist::read_netlist(decks.write("deck.cir", deck));
+    const auto* r1 = &netlist.devices.front();
+    for (const auto& d : netlist.devices)
+        if (d.name == "r.x1.r1") r1 = &d;
+    REQUIRE(r1->name == "r.x1.r1");
+    REQUIRE(r1->value);
+    CHECK(*r1->value == doctest::Approx(1e3));
+    const auto run = mirrorcheck::test::run_ngspice(deck + ".control\nop\nprint i(v1)\nquit 0\n.endc\n.end\n");
+    CAPTURE(run.output);
+    CHECK(run.output.find("i(v1) = -1.00000e-03") != std::string::npos);
 }

@@ -3,7 +3,8 @@
 # the fuzz build folder and runs each for SECONDS, two or more at a time (one per core).
 # Prints one line per target: name, executions, coverage, crashes; exits 1 on any crash,
 # leak, hang or sanitizer report, after printing the input that caused it (hex) and the
-# report, so a CI log alone is enough to reproduce it.
+# report, so a CI log alone is enough to reproduce it. A unit running past 30 s is a hang
+# (wall time, so generous: a loaded CI machine, or fuzzers sharing cores, slows each unit).
 #
 #   tests/fuzz/run.sh SECONDS [TARGET ...]
 #
@@ -77,7 +78,7 @@ run_target() {
   # Leaks are reported at exit (libFuzzer's -detect_leaks) and UBSan stops at the first report.
   ASAN_OPTIONS=detect_leaks=1:abort_on_error=1:symbolize=1 \
   UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 \
-    "$build/tests/fuzz/$target" -max_total_time="$seconds" -timeout=10 -rss_limit_mb=2048 \
+    "$build/tests/fuzz/$target" -max_total_time="$seconds" -timeout=30 -rss_limit_mb=2048 \
       -max_len="$(max_len "$target")" -dict="$root/tests/fuzz/dict/$(dictionary "$target").dict" \
       -artifact_prefix="$build/artifacts/$target/" -print_final_stats=1 \
       "$build/corpus/$target" "$build/seeds/$target" >"$log" 2>&1 || echo "exit $?" >>"$log"

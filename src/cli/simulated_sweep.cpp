@@ -83,7 +83,7 @@ public:
         const auto planned = sweep::plan_runs(request_.axes);
         const Recognition deck_recognition = recognise_circuit(circuit_);
         std::vector<RunJob> jobs;
-        std::optional<std::size_t> corner_line;
+        std::optional<std::vector<CornerLine>> corner_lines;
         Circuit probed = circuit_;
         for (std::size_t k = 0; k < planned.size(); ++k) {
             const fs::path dir = folder_ / fmt::format("run{}", k + 1);
@@ -95,9 +95,9 @@ public:
             ReviewDeck deck = write_review_deck(netlist_, circuit_, deck_recognition.mirrors, options);
             refuse_overwrite(deck);
             if (k == 0) add_deck_probes(probed, deck);
-            if (!request_.axes.corners.empty() && !corner_line)
-                corner_line = find_corner_line(deck.text, request_.axes.corners, review_.netlist);
-            deck.text = write_run_variant(deck.text, planned[k].variant, corner_line.value_or(0));
+            if (!request_.axes.corners.empty() && !corner_lines)
+                corner_lines = find_corner_lines(deck.text, request_.axes.corners, review_.netlist);
+            deck.text = write_run_variant(deck.text, planned[k].variant, corner_lines.value_or(std::vector<CornerLine>{}));
             save_review_deck(deck);
             NgspiceCall call{request_.ngspice, deck.path, dir / "ngspice.log", deck.run_folder, request_.timeout};
             std::error_code ec;

@@ -51,8 +51,18 @@ InputError cannot_write(const Location& where, std::string_view what, std::strin
 
 InputError no_corner_lib(const std::string& deck_path) {
     return {"sweep.no-corner-lib", Location(deck_path),
-            "--corners needs a `.lib FILE SECTION` line naming the deck's corner (e.g. `.lib \"models.lib\" tt`); "
-            "the deck has none"};
+            "--corners needs a `.lib FILE SECTION` line naming the deck's corner (e.g. `.lib \"models.lib\" tt`), or "
+            "`.include` lines of files named after it with a file for every corner asked for beside each (e.g. "
+            "`x__tt.corner.spice` beside `x__ss.corner.spice`); the deck has neither"};
+}
+
+InputError ambiguous_corner(const std::string& deck_path, std::size_t line, const std::vector<std::string>& words) {
+    std::string listed;
+    for (const auto& w : words) listed += (listed.empty() ? "`" : ", `") + w + "`";
+    return {"sweep.ambiguous-corner", Location(deck_path, line),
+            fmt::format("the deck includes files of one family named {}, and any could be its corner; name the deck's "
+                        "own corner among --corners (e.g. --corners {},ss,ff)",
+                        listed, words.front())};
 }
 
 InputError unknown_corner(const std::string& library, const std::string& corner, const std::string& sections) {

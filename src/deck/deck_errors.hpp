@@ -4,6 +4,7 @@
 
 #include <string>
 #include <string_view>
+#include <vector>
 
 #include "parsers/common/input_error.hpp"
 
@@ -20,6 +21,9 @@ InputError card_in_library(const Location& where, std::string_view keyword);
 InputError cannot_write(const Location& where, std::string_view what, std::string_view reason);
 // `sweep --corners`: a deck with no `.lib FILE SECTION` line; a library without that section.
 InputError no_corner_lib(const std::string& deck_path);
+// Two `.include` lines of one file family (`x__tt.corner.spice`, `x__mismatch.corner.spice`),
+// neither or both named among the corners asked for: which one is the deck's corner?
+InputError ambiguous_corner(const std::string& deck_path, std::size_t line, const std::vector<std::string>& words);
 InputError unknown_corner(const std::string& library, const std::string& corner, const std::string& sections);
 
 }  // namespace mirrorcheck::errors

@@ -3,6 +3,8 @@
 #include <algorithm>
 #include <cctype>
 #include <fstream>
+#include <map>
+#include <optional>
 #include <sstream>
 
 #include <fmt/format.h>
@@ -64,13 +66,40 @@ std::size_t control_line(const std::vector<std::string>& lines) {
     return lines.size();
 }
 
-}  // namespace
+// The file name of `path` with its word at [at, at + size) replaced by `by`.
+std::filesystem::path with_word(const std::filesystem::path& path, std::size_t at, std::size_t size,
+                                const std::string& by) {
+    std::string name = path.filename().string();
+    return path.parent_path() / name.replace(at, size, by);
+}
 
-std::size_t find_corner_line(const std::string& deck_text, const std::vector<std::string>& corners,
-                             const std::filesystem::path& deck_path) {
-    const auto lines = split_lines(deck_text);
-    std::optional<std::pair<std::string, std::string>> first_missing;
-    std::string first_sections;
+// The corner word of an included file's name (`tt` in `x__tt.corner.spice`): the first
+// word, between characters that are not letters or digits, that each of `corners` can
+// take the place of with the file so named beside it: its offset and length.
+std::optional<std::pair<std::size_t, std::size_t>> corner_word(const std::filesystem::path& path,
+                                                               const std::vector<std::string>& corners) {
+    const std::string name = path.filename().string();
+    std::error_code ec;
+    for (std::size_t at = 0; at < name.size();) {
+        if (!std::isalnum(static_cast<unsigned char>(name[at]))) {
+            ++at;
+            continue;
+        }
+        std::size_t end = at;
+        while (end < name.size() && std::isalnum(static_cast<unsigned char>(name[end]))) ++end;
+        bool all = true;
+        for (const auto& c : corners) all = all && std::filesystem::is_regular_file(with_word(path, at, end - at, c), ec);
+        if (all) return std::pair{at, end - at};
+        at = end;
+    }
+    return std::nullopt;
+}
+
+// The `.lib FILE SECTION` line whose library has every corner; else the first library that
+// lacks one, and its sections, for the message.
+std::optional<std::size_t> find_lib_line(const std::vector<std::string>& lines, const std::vector<std::string>& corners,
+                                         std::optional<std::pair<std::string, std::string>>& first_missing,
+                                         std::string& first_sections) {
     for (std::size_t k = 0; k < lines.size(); ++k) {
         const auto w = words(lines[k]);
         if (w.size() != 3 || to_lower(w[0]) != ".lib") continue;
@@ -87,15 +116,77 @@ std::size_t find_corner_line(const std::string& deck_text, const std::vector<std
             }
         if (all) return k;
     }
+    return std::nullopt;
+}
+
+}  // namespace
+
+std::vector<CornerLine> find_corner_lines(const std::string& deck_text, const std::vector<std::string>& corners,
+                                          const std::filesystem::path& deck_path) {
+    const auto lines = split_lines(deck_text);
+    std::optional<std::pair<std::string, std::string>> first_missing;
+    std::string first_sections;
+    if (const auto lib = find_lib_line(lines, corners, first_missing, first_sections)) return {{*lib, {}}};
+    // Per family of files (the name with the corner word left out), the lines that include
+    // one of them: SKY130's `__tt.corner.spice` and `__mismatch.corner.spice` are one family,
+    // and only the deck's corner among them is to be replaced.
+    std::map<std::string, std::vector<CornerLine>> families;
+    for (std::size_t k = 0; k < lines.size(); ++k) {
+        const auto w = words(lines[k]);
+        const std::string head = w.empty() ? std::string() : to_lower(w[0]);
+        if (w.size() != 2 || (head != ".include" && head != ".inc")) continue;
+        if (const auto word = corner_word(w[1], corners)) {
+            const std::filesystem::path file(w[1]);
+            const std::string name = file.filename().string();
+            families[with_word(file, word->first, word->second, "\x01").string()].push_back(
+                {k, name.substr(word->first, word->second)});
+        }
+    }
+    std::vector<CornerLine> includes;
+    for (const auto& [family, members] : families) {
+        if (members.size() == 1) {
+            includes.push_back(members.front());
+            continue;
+        }
+        // More than one file of a family: the corner is the one named among the corners asked for.
+        std::vector<CornerLine> named;
+        for (const auto& m : members)
+            if (std::find(corners.begin(), corners.end(), m.word) != corners.end()) named.push_back(m);
+        if (named.size() != 1) {
+            std::vector<std::string> words_seen;
+            for (const auto& m : members) words_seen.push_back(m.word);
+            throw errors::ambiguous_corner(deck_path.string(), members.front().line + 1, words_seen);
+        }
+        includes.push_back(named.front());
+    }
+    std::sort(includes.begin(), includes.end(), [](const CornerLine& a, const CornerLine& b) { return a.line < b.line; });
+    if (!includes.empty()) return includes;
     if (first_missing) throw errors::unknown_corner(first_missing->first, first_missing->second, first_sections);
     throw errors::no_corner_lib(deck_path.string());
 }
 
-std::string write_run_variant(const std::string& deck_text, const RunVariant& run, std::size_t corner_line) {
+std::string write_run_variant(const std::string& deck_text, const RunVariant& run,
+                              const std::vector<CornerLine>& corner_lines) {
     auto lines = split_lines(deck_text);
-    if (run.corner && corner_line < lines.size()) {
-        const auto w = words(lines[corner_line]);
-        lines[corner_line] = fmt::format("{} \"{}\" {}", w[0], w[1], *run.corner);
+    for (const CornerLine& corner : corner_lines) {
+        if (!run.corner || corner.line >= lines.size()) continue;
+        const auto w = words(lines[corner.line]);
+        if (corner.word.empty()) {
+            lines[corner.line] = fmt::format("{} \"{}\" {}", w[0], w[1], *run.corner);
+        } else if (w.size() == 2) {
+            const std::filesystem::path file(w[1]);
+            const std::string name = file.filename().string();
+            // The word where find_corner_lines found it: the first whole-word occurrence.
+            for (std::size_t at = name.find(corner.word); at != std::string::npos; at = name.find(corner.word, at + 1)) {
+                const bool starts = at == 0 || !std::isalnum(static_cast<unsigned char>(name[at - 1]));
+                const std::size_t end = at + corner.word.size();
+                const bool ends = end == name.size() || !std::isalnum(static_cast<unsigned char>(name[end]));
+                if (!starts || !ends) continue;
+                lines[corner.line] =
+                    fmt::format("{} \"{}\"", w[0], with_word(file, at, corner.word.size(), *run.corner).string());
+                break;
+            }
+        }
     }
     if (run.temperature)
         for (auto& line : lines)

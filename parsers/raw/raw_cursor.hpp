@@ -1,6 +1,7 @@
 // Private to the raw reader: where it is in the file, and how it names that place.
 #pragma once
 
+#include <algorithm>
 #include <cstddef>
 #include <string>
 #include <string_view>
@@ -8,6 +9,7 @@
 #include "parsers/common/input_error.hpp"
 #include "parsers/common/mapped_file.hpp"
 #include "parsers/raw/raw.hpp"
+#include "parsers/raw/raw_errors.hpp"
 
 namespace mirrorcheck::raw::detail {
 
@@ -32,9 +34,17 @@ struct Cursor {
     Location value_here() const { return after_binary ? Location::at_byte(path, pos) : Location(path, line); }
     Location at_byte(std::size_t offset) const { return Location::at_byte(path, offset); }
 
-    // The next line without its line ending (LF or CRLF); advances past it.
+    // Header lines are short; one without a line end this far is data (a sparse or padded
+    // file would otherwise be scanned to its end, gigabytes, for a line end).
+    static constexpr std::size_t max_line = std::size_t{1} << 20;
+
+    // The next line without its line ending (LF or CRLF); advances past it. Throws
+    // "raw.line-too-long" when no line end comes within max_line bytes.
     std::string_view next_line() {
-        std::size_t end = bytes.find('\n', pos);
+        const std::size_t window = std::min(bytes.size() - pos, max_line + 2);
+        std::size_t end = bytes.substr(pos, window).find('\n');
+        if (end != std::string_view::npos) end += pos;
+        else if (bytes.size() - pos > max_line + 1) throw errors::raw_line_too_long(at_byte(pos), max_line);
         std::size_t stop = end == std::string_view::npos ? bytes.size() : end;
         std::string_view l = bytes.substr(pos, stop - pos);
         if (!l.empty() && l.back() == '\r') l.remove_suffix(1);

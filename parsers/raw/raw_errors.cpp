@@ -22,6 +22,13 @@ InputError raw_not_a_raw_file(const Location& where) {
     return {"raw.not-raw", where, "expected an ngspice raw file starting with `Title:`"};
 }
 
+InputError raw_line_too_long(const Location& where, std::size_t limit) {
+    return {"raw.line-too-long", where,
+            fmt::format("no line end within {} bytes where a header line belongs (Title:, Plotname:, ... of a next "
+                        "plot); the file holds more data than its `No. Points` says, or is not a raw file from here on",
+                        limit)};
+}
+
 InputError raw_bad_header_line(const Location& where, std::string_view line) {
     return {"raw.bad-header-line", where,
             fmt::format("unexpected header line {}; expected one of Title:, Date:, Plotname:, Flags:, "

@@ -11,6 +11,8 @@ namespace mirrorcheck::errors {
 
 InputError raw_not_a_raw_file(const Location& where);
 InputError raw_bad_header_line(const Location& where, std::string_view line);
+// A header line with no line end within `limit` bytes (data where a header belongs).
+InputError raw_line_too_long(const Location& where, std::size_t limit);
 InputError raw_missing_header_field(const Location& where, std::string_view field);
 InputError raw_duplicate_header_field(const Location& where, std::string_view field);
 InputError raw_bad_count(const Location& where, std::string_view field, std::string_view text);

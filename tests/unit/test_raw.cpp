@@ -238,3 +238,29 @@ TEST_CASE("a point count whose byte size passes 2^64 is reported as such, not wr
     }
     std::filesystem::remove(path);
 }
+
+TEST_CASE("data where the next plot's header belongs is refused at once, not scanned for a line end") {
+    // Found by a hostile probe: a sparse 3 GB file (one point of data, then zeros) took 42 s
+    // and 3 GB of mapped pages while the reader looked for the end of the "next header line".
+    const auto path = std::filesystem::temp_directory_path() / "mc-sparse-tail.raw";
+    const std::string header = "Title: t\nDate: d\nPlotname: Operating Point\nFlags: real\nNo. Variables: 2\n"
+                               "No. Points: 1\nVariables:\n\t0\tv(a)\tvoltage\n\t1\tv(b)\tvoltage\nBinary:\n";
+    {
+        std::ofstream out(path, std::ios::binary);
+        out << header;
+        out.write("\0\0\0\0\0\0\xf0\x3f\0\0\0\0\0\0\xf0\x3f", 16);
+    }
+    std::error_code ec;
+    std::filesystem::resize_file(path, std::uintmax_t{3} << 30, ec);
+    if (!ec) {  // a file system with sparse files
+        try {
+            raw::read_raw(path.string());
+            FAIL("read");
+        } catch (const InputError& e) {
+            CHECK(e.code() == "raw.line-too-long");
+            CHECK(e.where().byte_offset == header.size() + 16);  // just after the point
+            CHECK(e.message().find("1048576 bytes") != std::string::npos);
+        }
+    }
+    std::filesystem::remove(path);
+}

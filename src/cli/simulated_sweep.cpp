@@ -80,6 +80,11 @@ public:
 
     std::vector<sweep::RunRecord> run() {
         const StopSignals guard;  // Ctrl-C, SIGTERM, SIGHUP: no further run starts, the running ones end
+        // A supply that names no voltage source would give runs that all look alike and pass.
+        for (const auto& [source, values] : request_.axes.supplies) {
+            const Device* d = circuit_.find_device(source);
+            if (!d || d->kind != DeviceKind::vsource) throw usage::supply_names_nothing(source);
+        }
         const auto planned = sweep::plan_runs(request_.axes);
         const Recognition deck_recognition = recognise_circuit(circuit_);
         std::vector<RunJob> jobs;

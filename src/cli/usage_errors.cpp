@@ -124,6 +124,13 @@ InputError bad_supply(const std::string& text) {
             fmt::format("`{}` is not SOURCE=V[,V...] (example: --supply vdd=1.62,1.8,1.98)", text)};
 }
 
+InputError supply_names_nothing(const std::string& source) {
+    return {"usage.supply", Location("--supply"),
+            fmt::format("the netlist has no voltage source `{}`; --supply names the source whose DC value each run "
+                        "sets (example: --supply vdd=1.62,1.8,1.98)",
+                        source)};
+}
+
 InputError bad_temperature(const std::string& text) {
     return {"usage.temperature", Location("--temps"),
             fmt::format("`{}` is not a temperature in °C (example: --temps=-40,27,125)", text)};

@@ -36,6 +36,8 @@ InputError cannot_write(const std::string& path, const std::string& reason);
 InputError min_yield_above_one(const std::string& text);
 // `sweep`: --supply not NAME=V,V...; a --temps value not a number of °C; --param not NAME=VALUE.
 InputError bad_supply(const std::string& text);
+// `--supply NAME=...` naming no voltage source of the netlist.
+InputError supply_names_nothing(const std::string& source);
 InputError bad_temperature(const std::string& text);
 InputError bad_param(const std::string& text);
 // `sweep --engine`: GNU parallel or sbatch could not be started, or gave up.

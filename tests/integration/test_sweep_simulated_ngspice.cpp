@@ -130,6 +130,11 @@ TEST_CASE("corners, temperatures and supplies of the corpus deck as it is; a cor
     CHECK(bad.status == 2);
     CHECK(bad.err.find("sm141064.ngspice") != std::string::npos);
     CHECK(bad.err.find("[sweep.unknown-corner]") != std::string::npos);
+
+    // A supply the netlist lacks: refused before any run (it gave identical runs that passed).
+    const CliResult no_source = sweep(gf.dir, "corners_gf180.cir --supply vnosuch=1,2");
+    CHECK(no_source.status == 2);
+    CHECK(no_source.err.find("no voltage source `vnosuch`") != std::string::npos);
 }
 
 TEST_CASE("Monte Carlo on the corpus's statistical deck: a fixed seed repeats, draws differ") {

@@ -100,7 +100,8 @@ for t in "${targets[@]}"; do
   execs=$(sed -n 's/^stat::number_of_executed_units: *//p' "$log" | tail -1 || true)
   cov=$( (grep -o 'cov: [0-9]*' "$log" || true) | tail -1 | cut -d' ' -f2)
   corp=$( (grep -o 'corp: [0-9]*' "$log" || true) | tail -1 | cut -d' ' -f2)
-  crashes=$(find "$build/artifacts/$t" -type f | wc -l)
+  # crash-, leak-, timeout- and oom- inputs are findings; slow-unit- ones (over 10 s) are not.
+  crashes=$(find "$build/artifacts/$t" -type f ! -name 'slow-unit-*' | wc -l)
   bad=$crashes
   grep -q '^exit ' "$log" && [ "$bad" -eq 0 ] && bad=1  # died without leaving an input
   printf '%-18s %12s %10s %10s %8s\n' "$t" "${execs:-?}" "${cov:-?}" "${corp:-?}" "$crashes"
@@ -110,6 +111,7 @@ for t in "${targets[@]}"; do
     grep -v '^#[0-9]' "$log" | tail -60
     for a in "$build/artifacts/$t"/*; do
       [ -f "$a" ] || continue
+      case $(basename "$a") in slow-unit-*) continue ;; esac
       echo "---- $t: input $(basename "$a") ($(stat -c %s "$a") bytes), hex; reproduce with: $build/tests/fuzz/$t FILE"
       od -An -tx1 -v "$a" | head -200
     done

@@ -7,12 +7,12 @@
 #include <memory>
 
 #include <fmt/format.h>
-#include <unistd.h>
 
 #include "parsers/netlist/netlist.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/cli/netlist_limits_option.hpp"
 #include "src/cli/review_command.hpp"
+#include "src/cli/timeout_option.hpp"
 #include "src/cli/usage_errors.hpp"
 #include "src/cli/work_folder.hpp"
 #include "src/deck/child_process.hpp"
@@ -149,7 +149,7 @@ struct RunRequest {
     ReviewOptions review;
     std::string ngspice = "ngspice";
     std::string keep;
-    double timeout = 1800;  // seconds; 0: no limit
+    double timeout = default_timeout_seconds;  // seconds; 0: no limit
 };
 
 int run_run(RunRequest r) {
@@ -242,8 +242,7 @@ void add_run_command(CLI::App& app, int& status) {
     cmd->add_option("--keep", r->keep,
                     "keep the deck, log and results in this folder (a new or empty one, or one an earlier run "
                     "--keep wrote)");
-    cmd->add_option("--timeout", r->timeout,
-                    "end ngspice when it runs longer than this many seconds (default 1800; 0: no limit)");
+    add_timeout_option(*cmd, r->timeout, "the run stops with status 2");
     add_judgement_options(*cmd, r->review);
     cmd->callback([r, &status] { status = run_run(*r); });
 }

@@ -18,8 +18,8 @@
 #include "src/cli/review_command.hpp"
 #include "src/cli/simulated_sweep.hpp"
 #include "src/cli/terminal.hpp"
+#include "src/cli/timeout_option.hpp"
 #include "src/cli/usage_errors.hpp"
-#include "src/cli/work_folder.hpp"
 #include "src/model/circuit_build.hpp"
 #include "src/model/op_point_build.hpp"
 #include "src/model/simulation_plots_build.hpp"
@@ -47,7 +47,7 @@ struct SweepOptions {
     std::size_t monte_carlo = 0;
     unsigned long seed = 1;
     std::size_t jobs = 0;  // 0: the machine's cores
-    double timeout = 1800; // seconds a local run may take; 0: no limit
+    double timeout = default_timeout_seconds;  // seconds a local run may take; 0: no limit
     std::string keep, ngspice = "ngspice";
     std::string engine = "local";
     std::vector<std::string> engine_options;
@@ -296,10 +296,10 @@ void add_sweep_command(CLI::App& app, int& status) {
     cmd->add_option("--seed", o->seed, "the first Monte Carlo draw's seed (default 1; draw k uses seed + k - 1)");
     cmd->add_option("--param", o->params, "NAME=VALUE: a .param for every run, e.g. a PDK's statistical switch (repeatable)");
     cmd->add_option("--jobs", o->jobs, "ngspice processes at once (default: the machine's cores)");
-    cmd->add_option("--timeout", o->timeout,
-                    "end a local run's ngspice after this many seconds; the run counts as failed (default 1800; "
-                    "0: no limit)");
-    cmd->add_option("--keep", o->keep, "keep every run's deck, ngspice log and results in this folder");
+    add_timeout_option(*cmd, o->timeout, "local runs only; the run counts as failed");
+    cmd->add_option("--keep", o->keep,
+                    "keep every run's deck, ngspice log and results in this folder (a new or empty one, or one an "
+                    "earlier sweep --keep wrote)");
     cmd->add_option("--ngspice", o->ngspice, "the ngspice executable (default: ngspice on PATH)");
     cmd->add_option("--engine", o->engine,
                     "where the runs execute: local (default, --jobs processes), parallel (GNU parallel, --jobs at "

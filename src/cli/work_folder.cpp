@@ -1,7 +1,5 @@
 #include "src/cli/work_folder.hpp"
 
-#include <cmath>
-
 #include <fmt/format.h>
 #include <stdlib.h>
 
@@ -31,11 +29,6 @@ fs::path claim_work_folder(const std::string& keep, std::string_view command) {
             marker, fmt::format("mirrorcheck {} --keep wrote this folder; the next one may replace its files\n", command)))
         throw usage::cannot_write(marker.string(), *failed);
     return folder;
-}
-
-std::chrono::seconds timeout_seconds(double seconds) {
-    if (!std::isfinite(seconds) || seconds < 0 || seconds > 1e9) throw usage::bad_timeout(seconds);
-    return std::chrono::seconds(static_cast<long long>(std::ceil(seconds)));
 }
 
 }  // namespace mirrorcheck::cli

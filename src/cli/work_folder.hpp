@@ -3,7 +3,6 @@
 // mirrorcheck so that nothing in it it did not write is ever replaced.
 #pragma once
 
-#include <chrono>
 #include <filesystem>
 #include <string>
 #include <string_view>
@@ -19,9 +18,5 @@ inline constexpr std::string_view work_folder_marker = ".mirrorcheck-work";
 // "usage.keep" for a file, or a folder holding files mirrorcheck did not write (the user's
 // netlist, say), and "usage.temporary-folder" when no folder can be made.
 std::filesystem::path claim_work_folder(const std::string& keep, std::string_view command);
-
-// The time limit `--timeout SECONDS` gives, rounded up to whole seconds; 0: no limit.
-// Throws InputError "usage.timeout" for a negative or non-finite number.
-std::chrono::seconds timeout_seconds(double seconds);
 
 }  // namespace mirrorcheck::cli

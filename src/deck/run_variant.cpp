@@ -139,7 +139,7 @@ std::vector<CornerLine> find_corner_lines(const std::string& deck_text, const st
             const std::filesystem::path file(w[1]);
             const std::string name = file.filename().string();
             families[with_word(file, word->first, word->second, "\x01").string()].push_back(
-                {k, name.substr(word->first, word->second)});
+                {k, name.substr(word->first, word->second), word->first});
         }
     }
     std::vector<CornerLine> includes;
@@ -174,18 +174,8 @@ std::string write_run_variant(const std::string& deck_text, const RunVariant& ru
         if (corner.word.empty()) {
             lines[corner.line] = fmt::format("{} \"{}\" {}", w[0], w[1], *run.corner);
         } else if (w.size() == 2) {
-            const std::filesystem::path file(w[1]);
-            const std::string name = file.filename().string();
-            // The word where find_corner_lines found it: the first whole-word occurrence.
-            for (std::size_t at = name.find(corner.word); at != std::string::npos; at = name.find(corner.word, at + 1)) {
-                const bool starts = at == 0 || !std::isalnum(static_cast<unsigned char>(name[at - 1]));
-                const std::size_t end = at + corner.word.size();
-                const bool ends = end == name.size() || !std::isalnum(static_cast<unsigned char>(name[end]));
-                if (!starts || !ends) continue;
-                lines[corner.line] =
-                    fmt::format("{} \"{}\"", w[0], with_word(file, at, corner.word.size(), *run.corner).string());
-                break;
-            }
+            lines[corner.line] =
+                fmt::format("{} \"{}\"", w[0], with_word(w[1], corner.at, corner.word.size(), *run.corner).string());
         }
     }
     if (run.temperature)

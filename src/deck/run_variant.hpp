@@ -33,10 +33,11 @@ struct RunVariant {
 };
 
 // A line of the deck that a run's corner changes (0-based index): a `.lib` line's section
-// (`word` empty), or the corner word `word` in the file name of an `.include`.
+// (`word` empty), or the corner word `word`, at `at` in the file name of an `.include`.
 struct CornerLine {
     std::size_t line = 0;
     std::string word;
+    std::size_t at = 0;
 };
 
 // The `.lib` line of `deck_text` whose library file holds every one of `corners` as a

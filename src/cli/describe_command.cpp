@@ -1,8 +1,8 @@
 #include "src/cli/describe_command.hpp"
 
-#include <sstream>
 #include <iostream>
 #include <memory>
+#include <sstream>
 #include <string>
 
 #include "src/cli/bash_completion.hpp"

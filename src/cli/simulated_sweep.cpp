@@ -3,7 +3,6 @@
 #include <atomic>
 #include <chrono>
 #include <mutex>
-#include <cstdlib>
 #include <filesystem>
 #include <fstream>
 #include <iostream>
@@ -20,13 +19,13 @@
 #include "src/cli/usage_errors.hpp"
 #include "src/cli/work_folder.hpp"
 #include "src/deck/child_process.hpp"
-#include "src/output/write_file.hpp"
 #include "src/deck/ngspice_runner.hpp"
 #include "src/deck/review_deck.hpp"
 #include "src/deck/run_variant.hpp"
 #include "src/model/circuit_build.hpp"
 #include "src/model/op_point_build.hpp"
 #include "src/model/simulation_plots_build.hpp"
+#include "src/output/write_file.hpp"
 #include "src/report/review_report.hpp"
 #include "src/sweep/run_labels.hpp"
 

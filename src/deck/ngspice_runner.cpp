@@ -4,7 +4,6 @@
 #include "src/deck/child_process.hpp"
 #include "src/deck/deck_errors.hpp"
 
-#include <cstdlib>
 #include <fstream>
 #include <sstream>
 #include <vector>

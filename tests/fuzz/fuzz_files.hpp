@@ -9,7 +9,7 @@
 #include <string>
 #include <string_view>
 
-#include <unistd.h>
+#include <stdlib.h>  // mkdtemp
 
 namespace mirrorcheck::fuzz {
 

@@ -7,23 +7,16 @@
 
 #include "parsers/common/input_error.hpp"
 #include "parsers/listing/listing.hpp"
-#include "src/model/circuit_build.hpp"
 #include "src/model/op_point_build.hpp"
 #include "src/report/json_text.hpp"
 #include "src/report/listing_dump.hpp"
 #include "tests/fuzz/fuzz_files.hpp"
+#include "tests/fuzz/sample_circuit.hpp"
 
 using namespace mirrorcheck;
 
-namespace {
-const Circuit& sample_circuit() {
-    static const Circuit circuit = read_circuit(MIRRORCHECK_SOURCE_DIR "/samples/tamarack/bias.cir");
-    return circuit;
-}
-}  // namespace
-
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {
-    const Circuit& circuit = sample_circuit();
+    const Circuit& circuit = fuzz::sample_circuit();
     try {
         const listing::Listing l = listing::parse_listing(fuzz::as_text(data, size), "input.txt");
         (void)report::write_listing_table(l);

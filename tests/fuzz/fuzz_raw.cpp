@@ -5,7 +5,9 @@
 // dumped as `peek` would; anything but an InputError is a finding.
 #include <cstddef>
 #include <cstdint>
+#include <string>
 #include <string_view>
+#include <vector>
 
 #include "parsers/common/input_error.hpp"
 #include "parsers/raw/raw.hpp"

@@ -10,23 +10,16 @@
 #include "parsers/common/input_error.hpp"
 #include "parsers/raw/raw.hpp"
 #include "src/analyse/pipeline.hpp"
-#include "src/model/circuit_build.hpp"
 #include "src/model/op_point_build.hpp"
 #include "src/model/simulation_plots_build.hpp"
 #include "src/report/review_report.hpp"
 #include "tests/fuzz/fuzz_files.hpp"
+#include "tests/fuzz/sample_circuit.hpp"
 
 using namespace mirrorcheck;
 
-namespace {
-const Circuit& sample_circuit() {
-    static const Circuit circuit = read_circuit(MIRRORCHECK_SOURCE_DIR "/samples/tamarack/bias.cir");
-    return circuit;
-}
-}  // namespace
-
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {
-    const Circuit& circuit = sample_circuit();
+    const Circuit& circuit = fuzz::sample_circuit();
     const auto path = fuzz::scratch().write("input.raw", fuzz::as_text(data, size));
     try {
         raw::RawFile file = raw::read_raw(path, raw::Selection{{"op", "ac", "tf"}, false});
